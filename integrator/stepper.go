@@ -1,0 +1,43 @@
+package integrator
+
+import (
+	"fmt"
+	"sort"
+	"strings"
+)
+
+// Stepper advances a System by one step.
+type Stepper interface {
+	// Name is the method's name as scenarios write it.
+	Name() string
+	// Order is the global order of accuracy (error ~ h^Order).
+	Order() int
+	// Step advances s by h. s.A must be valid on entry and is valid on exit.
+	Step(s *System, f *Field, h float64)
+}
+
+var steppers = map[string]func() Stepper{
+	"leapfrog": func() Stepper { return NewLeapfrog() },
+	"yoshida4": func() Stepper { return NewYoshida4() },
+	"yoshida6": func() Stepper { return NewYoshida6() },
+	"rk45":     func() Stepper { return NewRK45(1e-12) },
+}
+
+// New returns the stepper with the given name.
+func New(name string) (Stepper, error) {
+	mk, ok := steppers[name]
+	if !ok {
+		return nil, fmt.Errorf("unknown integrator %q (known: %s)", name, strings.Join(Names(), ", "))
+	}
+	return mk(), nil
+}
+
+// Names lists the integrator names.
+func Names() []string {
+	var n []string
+	for k := range steppers {
+		n = append(n, k)
+	}
+	sort.Strings(n)
+	return n
+}
