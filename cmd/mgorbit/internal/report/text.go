@@ -77,6 +77,8 @@ func duration(s float64) string {
 		return fmt.Sprintf("%.6g yr", s/units.JulianYear)
 	case s >= units.Day:
 		return fmt.Sprintf("%.6g d", s/units.Day)
+	case s >= 3600:
+		return fmt.Sprintf("%.6g h", s/3600)
 	}
 	return fmt.Sprintf("%.6g s", s)
 }
