@@ -157,7 +157,7 @@ func ParseAs(s string, want Dim) (float64, error) {
 		if q.Dim == Dimensionless {
 			return 0, fmt.Errorf("%q has no unit; a %s needs one (for example %s)", s, want, Example(want))
 		}
-		return 0, fmt.Errorf("%q is a %s quantity, but a %s is needed (for example %s)", s, q.Dim, want, Example(want))
+		return 0, fmt.Errorf("%q has the dimension of %s, but %s is needed (for example %s)", s, q.Dim, want, Example(want))
 	}
 	return q.Value, nil
 }

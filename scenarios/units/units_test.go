@@ -112,7 +112,7 @@ func TestParseErrors(t *testing.T) {
 		dim  Dim
 		want string
 	}{
-		{"3 km", Mass, "is a length, but a mass is needed"},
+		{"3 km", Mass, "has the dimension of length, but mass is needed"},
 		{"3", Length, "has no unit"},
 		{"30 km/s", Time, "is a speed"},
 	} {
