@@ -114,7 +114,7 @@ func TestParseErrors(t *testing.T) {
 	}{
 		{"3 km", Mass, "has the dimension of length, but mass is needed"},
 		{"3", Length, "has no unit"},
-		{"30 km/s", Time, "is a speed"},
+		{"30 km/s", Time, "dimension of speed"},
 	} {
 		_, err := ParseAs(c.in, c.dim)
 		if err == nil || !strings.Contains(err.Error(), c.want) {
