@@ -81,7 +81,10 @@ func newKernelsCmd() *cobra.Command {
 							def = fmt.Sprintf("default %g", p.Default)
 						}
 						unit := p.Unit
-						if unit == "" {
+						switch {
+						case p.Kind == kernels.Choice:
+							unit = "choice"
+						case unit == "":
 							unit = p.Dim.String()
 						}
 						fmt.Fprintf(tw, "    %s\t%s\t%s\t%s\t%s\n", p.Name, unit, p.Range(), def, p.Doc)
