@@ -75,7 +75,7 @@ func TestDefaultScenario(t *testing.T) {
 		t.Errorf("stack %s, want gr1pn", got)
 	}
 	is := sc.Integrator
-	if is.Method != "yoshida6" || is.StepsPerOrbit != 300.7 || is.Orbits != 40 {
+	if is.Method != "yoshida6" || is.StepsPerOrbit != 500.7 || is.Orbits != 40 {
 		t.Errorf("integrator %+v", is)
 	}
 	mu := units.GMSun * (1 + 1.7e-7)
@@ -84,7 +84,7 @@ func TestDefaultScenario(t *testing.T) {
 	if d := math.Abs(sc.OrbitPeriod()-want) / want; d > 1e-12 {
 		t.Errorf("period off by %.2g relative", d)
 	}
-	if d := math.Abs(sc.TimeStep()-want/300.7) / want; d > 1e-12 {
+	if d := math.Abs(sc.TimeStep()-want/500.7) / want; d > 1e-12 {
 		t.Errorf("step off by %.2g", d)
 	}
 }
@@ -308,8 +308,9 @@ func TestBarycentricFrame(t *testing.T) {
 			t.Fatal(err)
 		}
 		var p, c vec.V
-		var pScale, cScale float64
+		var pScale, cScale, moving float64
 		for _, b := range sc.Bodies {
+			moving += b.V.Norm()
 			p = p.AddScaled(b.GM, b.V)
 			c = c.AddScaled(b.GM, b.X)
 			pScale += b.GM * b.V.Norm()
@@ -318,7 +319,7 @@ func TestBarycentricFrame(t *testing.T) {
 		if p.Norm() > 1e-12*pScale || c.Norm() > 1e-12*cScale {
 			t.Errorf("%s: total momentum %.2g, centre of mass %.2g (relative)", n, p.Norm()/pScale, c.Norm()/cScale)
 		}
-		if pScale == 0 {
+		if moving == 0 {
 			t.Errorf("%s: nothing moves", n)
 		}
 	}
