@@ -150,6 +150,7 @@ func Metadata(st *study.Study) map[string]string {
 		"mgorbit.integrator.order": fmt.Sprint(st.Order),
 		"mgorbit.step_s":           fmt.Sprint(st.Setup.H),
 		"mgorbit.steps":            fmt.Sprint(st.Setup.Steps),
+		"mgorbit.output_every":     fmt.Sprint(st.Setup.OutputEvery),
 		"mgorbit.orbit_of":         st.Setup.Names[st.OrbitOf],
 		"mgorbit.constants":        fmt.Sprintf("au=%v m; GM_sun=%v m^3/s^2 (IAU 2015 B3); c=%v m/s; G=%v (CODATA 2018)", units.AU, units.GMSun, units.C, units.G),
 	}

@@ -28,21 +28,21 @@ func Text(w io.Writer, st *study.Study) {
 			}
 			fmt.Fprintln(tw)
 		}
-		row("precession", num(s.PrecessionPerOrbit, "rad/orbit"), "± "+num(s.PrecessionIntErr, "integration"),
-			"± "+num(s.PrecessionStdErr, "fit"))
-		row("", num(s.PrecessionPerCentury, "arcsec/century"), "± "+num(s.PrecessionPerCenturyErr, ""))
+		row("precession", num(s.PrecessionPerOrbit, "rad/orbit"), "± "+err3(s.PrecessionIntErr, "integration"),
+			"± "+err3(s.PrecessionStdErr, "fit"))
+		row("", num(s.PrecessionPerCentury, "arcsec/century"), "± "+err3(s.PrecessionPerCenturyErr, ""))
 		row("semi-analytic", num(s.SemiPrecessionPerOrbit, "rad/orbit"), "["+s.SemiPath+"]",
-			"integrated minus semi-analytic "+num(s.PrecessionMinusSemi, ""))
+			"integrated minus semi-analytic "+err3(s.PrecessionMinusSemi, ""))
 		if s.ReferenceStack != "" {
-			row("anomaly vs "+s.ReferenceStack, num(s.AnomalyPerOrbit, "rad/orbit"), "± "+num(s.AnomalyIntErr, "integration"),
+			row("anomaly vs "+s.ReferenceStack, num(s.AnomalyPerOrbit, "rad/orbit"), "± "+err3(s.AnomalyIntErr, "integration"),
 				"semi-analytic "+num(s.SemiAnomalyPerOrbit, ""))
-			row("", num(s.AnomalyPerCentury, "arcsec/century"), "± "+num(s.AnomalyPerCentErr, ""))
+			row("", num(s.AnomalyPerCentury, "arcsec/century"), "± "+err3(s.AnomalyPerCentErr, ""))
 		}
-		row("radial period", days(s.RadialPeriod), "± "+num(s.RadialPeriodErr/units.Day, "d"), "semi-analytic "+days(s.SemiRadialPeriod))
-		row("azimuthal period", days(s.AzimuthalPeriod), "± "+num(s.AzimuthalPeriodErr/units.Day, "d"))
-		row("period shift vs Kepler", "radial "+num(s.RadialShiftKepler, ""), "azimuthal "+num(s.AzimuthalShiftKepler, ""))
-		row("period shift vs Newtonian run", "radial "+num(s.RadialShiftNewton, ""))
-		row("conservation (max rel. error)", "energy "+num(s.EnergyErr, ""), "angular momentum "+num(s.AngMomErr, ""))
+		row("radial period", days(s.RadialPeriod), "± "+err3(s.RadialPeriodErr/units.Day, "d"), "semi-analytic "+days(s.SemiRadialPeriod))
+		row("azimuthal period", days(s.AzimuthalPeriod), "± "+err3(s.AzimuthalPeriodErr/units.Day, "d"))
+		row("period shift vs Kepler", "radial "+err3(s.RadialShiftKepler, ""), "azimuthal "+err3(s.AzimuthalShiftKepler, ""))
+		row("period shift vs Newtonian run", "radial "+err3(s.RadialShiftNewton, ""))
+		row("conservation (max rel. error)", "energy "+err3(s.EnergyErr, ""), "angular momentum "+err3(s.AngMomErr, ""))
 		tw.Flush()
 		if s.Notes != "" {
 			fmt.Fprintf(w, "  note: %s\n", s.Notes)
@@ -53,11 +53,17 @@ func Text(w io.Writer, st *study.Study) {
 	}
 }
 
-func num(x float64, unit string) string {
+// num shows a value to nine significant digits, so that a value and its
+// reference can be compared by eye; err shows an uncertainty to three.
+func num(x float64, unit string) string { return format(x, unit, 9) }
+
+func err3(x float64, unit string) string { return format(x, unit, 3) }
+
+func format(x float64, unit string, digits int) string {
 	if math.IsNaN(x) {
 		return "n/a"
 	}
-	s := fmt.Sprintf("%.6g", x)
+	s := fmt.Sprintf("%.*g", digits, x)
 	if unit != "" {
 		s += " " + unit
 	}
