@@ -29,8 +29,8 @@ runs. Each result carries an integration-error estimate from a second run at
 half the step, the anomaly against the stack without its corrections, and a
 semi-analytic reference where one applies.`,
 		Example: `  mgorbit run                          # the built-in default scenario
-  mgorbit run aster-gr --out results     # a built-in by name
-  mgorbit run my-system.toml --json      # summary as JSON on stdout`,
+  mgorbit run aster-gr --out results   # a built-in by name
+  mgorbit run my-system.toml --json    # summary as JSON on stdout`,
 		Args: cobra.MaximumNArgs(1),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			arg := ""
