@@ -68,6 +68,9 @@ const (
 	Number Kind = iota
 	// Choice parameters take one of a fixed set of words.
 	Choice
+	// Text parameters take any non-empty string, such as a file path; like
+	// choices they travel in Values.Str.
+	Text
 )
 
 // Param declares one parameter of a kernel.
@@ -97,6 +100,9 @@ type Param struct {
 func (p Param) Range() string {
 	if p.Kind == Choice {
 		return "one of " + strings.Join(p.Choices, ", ")
+	}
+	if p.Kind == Text {
+		return "a non-empty text"
 	}
 	lo, hi := "[", "]"
 	if p.MinOpen {
@@ -141,7 +147,8 @@ type Info struct {
 	Params            []Param
 }
 
-// Values are a kernel's parameter values: numbers in SI, choices as words.
+// Values are a kernel's parameter values: numbers in SI, choices as words,
+// texts as given.
 type Values struct {
 	Num map[string]float64
 	Str map[string]string
@@ -215,11 +222,25 @@ func New(name string, v Values) (Kernel, error) {
 		}
 	}
 	for k := range v.Str {
-		if p, ok := known[k]; !ok || p.Kind != Choice {
+		if p, ok := known[k]; !ok || (p.Kind != Choice && p.Kind != Text) {
 			return nil, unknownParam(e.info, k)
 		}
 	}
 	for _, p := range e.info.Params {
+		if p.Kind == Text {
+			s, ok := v.Str[p.Name]
+			if !ok {
+				if p.Required {
+					return nil, fmt.Errorf("kernel %s: parameter %s is required (%s)", name, p.Name, p.Doc)
+				}
+				continue
+			}
+			if strings.TrimSpace(s) == "" || strings.ContainsRune(s, 0) {
+				return nil, fmt.Errorf("kernel %s: parameter %s = %q must be a non-empty text without NUL bytes", name, p.Name, s)
+			}
+			full.Str[p.Name] = s
+			continue
+		}
 		if p.Kind == Choice {
 			s, ok := v.Str[p.Name]
 			if !ok {
