@@ -71,8 +71,7 @@ func (c *Composition) Step(s *System, f *Field, h float64) {
 	w := c.weights
 	pending := 0.5 * w[0]
 	for k, wk := range w {
-		kick(s, pending*h)
-		drift(s, wk*h)
+		kickDrift(s, pending*h, wk*h)
 		f.Eval(s.GM, s.X, s.V, s.A)
 		if k+1 < len(w) {
 			pending = 0.5 * (wk + w[k+1])
@@ -80,7 +79,7 @@ func (c *Composition) Step(s *System, f *Field, h float64) {
 			pending = 0.5 * wk
 		}
 	}
-	kick(s, pending*h)
+	kickOnly(s, pending*h)
 	s.T += h
 }
 

@@ -4,6 +4,8 @@ import (
 	"fmt"
 	"sort"
 	"strings"
+
+	"mgorbit/kernels"
 )
 
 // Stepper advances a System by one step.
@@ -21,6 +23,27 @@ var steppers = map[string]func() Stepper{
 	"yoshida4": func() Stepper { return NewYoshida4() },
 	"yoshida6": func() Stepper { return NewYoshida6() },
 	"rk45":     func() Stepper { return NewRK45(1e-12) },
+
+	"wisdom-holman":   func() Stepper { return NewWisdomHolman() },
+	"wisdom-holman-4": func() Stepper { return NewWisdomHolman4() },
+	"wisdom-holman-6": func() Stepper { return NewWisdomHolman6() },
+	"logh-leapfrog":   func() Stepper { return NewLogHLeapfrog() },
+	"logh-yoshida4":   func() Stepper { return NewLogHYoshida4() },
+}
+
+// Applicability is implemented by steppers that work only for some
+// systems (the Wisdom-Holman map needs one dominant mass and position-only
+// kicks). Callers check it before the first Step, which panics otherwise.
+type Applicability interface {
+	Applies(stack *kernels.Stack, gm []float64) error
+}
+
+// VariableStep is implemented by time-transformed steppers: Step(h)
+// advances s.T by an amount that varies along the orbit (short near
+// pericentre), h setting the mean. Drivers loop until s.T reaches the
+// duration instead of counting steps.
+type VariableStep interface {
+	VariableStep()
 }
 
 // New returns the stepper with the given name.

@@ -1,5 +1,7 @@
 // Package kepler converts between Keplerian orbital elements and Cartesian
-// states of the two-body problem, and solves Kepler's equation.
+// states of the two-body problem, and solves Kepler's equation. Drift
+// advances a state along the exact Kepler flow in universal variables, for
+// any conic (the element conversions below handle bound orbits only).
 //
 // Elements refer to the x-y plane as reference plane and the x axis as
 // reference direction: the inclination is measured from +z, the longitude of
