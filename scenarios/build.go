@@ -3,6 +3,7 @@ package scenarios
 import (
 	"fmt"
 	"math"
+	"path/filepath"
 	"strings"
 
 	"mgorbit/integrator"
@@ -92,6 +93,10 @@ func (b *builder) build(top *table) {
 	if b.r.failed() {
 		return
 	}
+	b.chooseMethod()
+	if b.r.failed() {
+		return
+	}
 	b.checkTiming()
 	if b.r.failed() {
 		return
@@ -99,6 +104,30 @@ func (b *builder) build(top *table) {
 	for _, bs := range b.bodies {
 		b.sc.Bodies = append(b.sc.Bodies, Body{Name: bs.name, GM: bs.gm, Test: bs.test,
 			Primary: bs.primary, X: bs.X, V: bs.V, Radius: bs.radius})
+	}
+}
+
+// chooseMethod picks the default integrator when the file names none (the
+// Wisdom-Holman map where one mass dominates and the stack is
+// position-only, else yoshida6), and checks that a named one applies.
+func (b *builder) chooseMethod() {
+	is := &b.sc.Integrator
+	gm := make([]float64, len(b.bodies))
+	for k, bs := range b.bodies {
+		gm[k] = bs.gm
+	}
+	if !b.integ.has("method") {
+		is.Method = integrator.Recommend(b.sc.Stack, gm)
+		return
+	}
+	st, err := integrator.New(is.Method)
+	if err != nil {
+		return
+	}
+	if ap, ok := st.(integrator.Applicability); ok {
+		if err := ap.Applies(b.sc.Stack, gm); err != nil {
+			b.r.add(b.integ.field("method"), is.Method, "%v", err)
+		}
 	}
 }
 
@@ -309,6 +338,19 @@ func (b *builder) readKernel(t *table) (KernelSpec, bool) {
 			}
 			continue
 		}
+		if p.Kind == kernels.Text {
+			text, ok := v.(string)
+			if !ok || strings.TrimSpace(text) == "" {
+				b.r.add(field, v, "must be a non-empty string (%s)", p.Doc)
+				continue
+			}
+			if p.Unit == "path" && !filepath.IsAbs(text) && !strings.HasPrefix(b.sc.Source, "builtin:") && b.sc.Source != "" {
+				// a relative path means relative to the scenario file
+				text = filepath.Join(filepath.Dir(b.sc.Source), text)
+			}
+			vals.Str[p.Name] = text
+			continue
+		}
 		if p.Kind == kernels.Choice {
 			s, err := choiceValue(v, p)
 			if err != nil {
@@ -342,7 +384,7 @@ func (b *builder) readKernel(t *table) (KernelSpec, bool) {
 // describeParam says what a parameter takes, for messages.
 func describeParam(p kernels.Param) string {
 	switch {
-	case p.Kind == kernels.Choice:
+	case p.Kind == kernels.Choice, p.Kind == kernels.Text:
 		return p.Range()
 	case p.Dim == units.Dimensionless && p.Integer:
 		return "a " + p.Range()

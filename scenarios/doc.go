@@ -13,7 +13,8 @@
 //	description = "..."              # optional
 //
 //	[integrator]                     # optional table, all keys optional
-//	method = "yoshida6"              # leapfrog | yoshida4 | yoshida6 | rk45 (default yoshida6)
+//	method = "yoshida6"              # see `mgorbit run --help`; default: wisdom-holman-4 where one mass
+//	                                 # dominates and the stack is position-only, else yoshida6
 //	steps_per_orbit = 317.3          # or step = "0.5 d"; not both (default steps_per_orbit = 400.3)
 //	orbits = 100                     # or duration = "20 yr"; not both (default orbits = 50)
 //	orbit_of = "Tiber"               # whose initial Keplerian period is "one orbit"

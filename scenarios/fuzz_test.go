@@ -2,8 +2,10 @@ package scenarios
 
 import "testing"
 
-// FuzzParse: no input makes Parse panic, and a failure always says where.
-// go test runs the seeds; go test -fuzz FuzzParse explores further.
+// FuzzParse: no input makes Parse panic, a failure always says where, and
+// an accepted scenario written out again parses to the same scenario
+// (roundTrip). go test runs the seeds and the corpus kept in
+// testdata/fuzz/FuzzParse; go test -fuzz FuzzParse explores further.
 func FuzzParse(f *testing.F) {
 	for _, n := range BuiltinNames() {
 		text, _ := BuiltinText(n)
@@ -18,6 +20,9 @@ func FuzzParse(f *testing.F) {
 		}
 		if err != nil && len(err.Error()) < len("fuzz.toml: ") {
 			t.Fatalf("empty message: %q", err)
+		}
+		if err == nil {
+			roundTrip(t, text, sc)
 		}
 	})
 }

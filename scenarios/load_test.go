@@ -113,11 +113,13 @@ func TestLoadFile(t *testing.T) {
 	}
 }
 
-// TestDefaults: what an [integrator]-less file gets (doc.go's schema).
+// TestDefaults: what an [integrator]-less file gets (doc.go's schema): a
+// Newtonian star and planet has one dominant mass and a position-only
+// stack, so the default method is the Wisdom-Holman map.
 func TestDefaults(t *testing.T) {
 	sc := mustParse(t, scenario(starBody, planetBody))
 	is := sc.Integrator
-	if is.Method != "yoshida6" || is.StepsPerOrbit != 400.3 || is.Step != 0 || is.Orbits != 50 || is.Duration != 0 ||
+	if is.Method != "wisdom-holman-4" || is.StepsPerOrbit != 400.3 || is.Step != 0 || is.Orbits != 50 || is.Duration != 0 ||
 		is.Tolerance != 1e-12 || is.EnergyTolerance != 1e-6 || is.AngularMomentumTolerance != 1e-6 ||
 		is.Frame != "barycentric" || is.OrbitOf != "" {
 		t.Errorf("defaults %+v", is)

@@ -5,7 +5,9 @@ import (
 	"math"
 	"strconv"
 
+	"mgorbit/integrator"
 	"mgorbit/integrator/kepler"
+	"mgorbit/kernels"
 	"mgorbit/scenarios/units"
 )
 
@@ -67,12 +69,40 @@ func (b *builder) checkTiming() {
 			total/period, ref.name, fmtTime(period), MinPeriods, MinPeriods, fmtTimeRounded(MinPeriods*period, math.Ceil))
 	}
 
-	if is.Method != "rk45" { // rk45 chooses its own steps by error control
-		b.checkPericentreStep(step, period, ref, stepField, stepValue)
+	// rk45 chooses its own steps by error control, and the time-transformed
+	// steppers shorten theirs at pericentre by construction
+	if st, err := integrator.New(is.Method); err == nil {
+		if _, variable := st.(integrator.VariableStep); !variable && is.Method != "rk45" {
+			b.checkPericentreStep(step, period, ref, stepField, stepValue)
+		}
 	}
 
 	if is.OutputEvery == 0 {
 		is.OutputEvery = max(1, int(math.Floor(period/step/RowsPerOrbit)))
+	}
+	b.checkKernelDomains()
+}
+
+// checkKernelDomains refuses orbits that start outside a kernel's domain
+// (a tabulated model's range of r), judged on the osculating apsides.
+func (b *builder) checkKernelDomains() {
+	if b.sc.Stack == nil {
+		return
+	}
+	for _, bs := range b.bodies {
+		if bs.parent == nil || !(bs.mu > 0) {
+			continue
+		}
+		energy := 0.5*bs.relV.Norm2() - bs.mu/bs.relX.Norm()
+		if !(energy < 0) {
+			continue
+		}
+		a := -bs.mu / (2 * energy)
+		h := bs.relX.Cross(bs.relV).Norm()
+		e := math.Sqrt(math.Max(0, 1-h*h/(bs.mu*a)))
+		if err := kernels.DomainError(b.sc.Stack, a*(1-e), a*(1+e)); err != nil {
+			b.r.add(bs.t.path, nil, "orbit about %s (r from %.4g to %.4g m): %v", bs.primary, a*(1-e), a*(1+e), err)
+		}
 	}
 }
 

@@ -17,8 +17,8 @@ import (
 )
 
 func newRunCmd() *cobra.Command {
-	var out string
-	var asJSON, quiet, force, keepGoing bool
+	var out, checkpointEvery string
+	var asJSON, quiet, force, keepGoing, resume bool
 	cmd := &cobra.Command{
 		Use:   "run [SCENARIO]",
 		Short: "Integrate a scenario and write summary.parquet and trajectory.parquet",
@@ -27,17 +27,31 @@ DIR/summary.parquet (one row per orbiting body) and DIR/trajectory.parquet
 (one row per body per output time). Without SCENARIO the built-in default
 runs. Each result carries an integration-error estimate from a second run at
 half the step, the anomaly against the stack without its corrections, and a
-semi-analytic reference where one applies.`,
+semi-analytic reference where one applies.
+
+Integrators (the scenario's [integrator] method): leapfrog, yoshida4,
+yoshida6, wisdom-holman, wisdom-holman-4, wisdom-holman-6, logh-leapfrog,
+logh-yoshida4, rk45. Without a method the scenario gets wisdom-holman-4 where
+one mass dominates and the stack is position-only, else yoshida6.
+
+SIGINT or SIGTERM stops the run after the current step and saves
+DIR/run.checkpoint; --resume continues it, and the outputs are byte for byte
+those of an uninterrupted run. --checkpoint-every saves it periodically too,
+so that a crash or SIGKILL loses little. Exit codes: 0 success, 1 failure,
+2 bad input, 3 accuracy lost (tolerance breach or unresolved close
+encounter), 4 interrupted (checkpoint saved), 5 collision.`,
 		Example: `  mgorbit run                          # the built-in default scenario
   mgorbit run aster-gr --out results   # a built-in by name
-  mgorbit run my-system.toml --json    # summary as JSON on stdout`,
+  mgorbit run my-system.toml --json    # summary as JSON on stdout
+  mgorbit run long.toml --out r --checkpoint-every 10m
+  mgorbit run --out r --resume         # after an interruption or a crash`,
 		Args: cobra.MaximumNArgs(1),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			arg := ""
 			if len(args) == 1 {
 				arg = args[0]
 			}
-			sc, err := loadScenario(arg)
+			sc, ck, err := prepareRun(arg, out, force, resume, checkpointEvery)
 			if err != nil {
 				return err
 			}
@@ -50,7 +64,7 @@ semi-analytic reference where one applies.`,
 					}
 				}
 			}
-			opt := study.Options{KeepGoing: keepGoing}
+			opt := study.Options{KeepGoing: keepGoing, Checkpoint: ck.cp}
 			var bar *progressbar.ProgressBar
 			if !quiet && isatty.IsTerminal(os.Stderr.Fd()) {
 				bar = progressbar.NewOptions64(-1,
@@ -74,10 +88,14 @@ semi-analytic reference where one applies.`,
 				_ = bar.Finish()
 			}
 			if err != nil {
-				return err
-			}
-			if err := os.MkdirAll(out, 0o755); err != nil {
-				return err
+				var again []string
+				if keepGoing {
+					again = append(again, "--keep-going")
+				}
+				if checkpointEvery != "" {
+					again = append(again, "--checkpoint-every", checkpointEvery)
+				}
+				return ck.explain(err, arg, out, again...)
 			}
 			meta := report.Metadata(st)
 			rows := report.Summaries(st)
@@ -85,6 +103,9 @@ semi-analytic reference where one applies.`,
 				return err
 			}
 			if err := table.Write(trajPath, report.Trajectory(st), meta, force); err != nil {
+				return err
+			}
+			if err := ck.done(cmd.ErrOrStderr(), quiet || asJSON); err != nil {
 				return err
 			}
 			stdout := cmd.OutOrStdout()
@@ -110,7 +131,9 @@ semi-analytic reference where one applies.`,
 	f.BoolVar(&asJSON, "json", false, "print the summary as JSON on stdout instead of the table")
 	f.BoolVar(&quiet, "quiet", false, "no progress bar and no table")
 	f.BoolVar(&force, "force", false, "replace existing output files")
-	f.BoolVar(&keepGoing, "keep-going", false, "on an energy or angular-momentum tolerance breach, finish the run and warn instead of stopping")
+	f.BoolVar(&keepGoing, "keep-going", false, "on an energy or angular-momentum tolerance breach, finish the run, warn and mark the rows (accuracy_tolerance_exceeded) instead of stopping")
+	f.StringVar(&checkpointEvery, "checkpoint-every", "", "also save DIR/"+checkpointName+" every N steps of the main integration (e.g. 100000) or every wall-clock interval (e.g. 10m); an interrupted run always saves one")
+	f.BoolVar(&resume, "resume", false, "continue the run saved in DIR/"+checkpointName+" (SCENARIO may be omitted); the result is bit-identical to an uninterrupted run")
 	return cmd
 }
 

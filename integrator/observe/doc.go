@@ -9,4 +9,7 @@
 // (local error O(h^6), below the sixth-order stepper's own). Osculating
 // Newtonian elements are never used for this: under a modified force they
 // oscillate within an orbit.
+//
+// A Tracker's state can be saved (Snapshot) and rebuilt (RestoreTracker)
+// for checkpoints.
 package observe

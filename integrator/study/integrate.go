@@ -18,6 +18,8 @@ type Setup struct {
 	GM      []float64
 	Primary []int // index of each body's primary, -1 for none
 	X0, V0  []vec.V
+	// Radius is each body's radius in m (0 for a point): the collision check.
+	Radius []float64
 
 	Stack       *kernels.Stack
 	Method      string
@@ -41,6 +43,10 @@ type Row struct {
 	// EnergyErr is the relative error of the conserved orbital energy
 	// about the primary; NaN where it is not conserved (perturbed orbits).
 	EnergyErr float64
+	// Exceeded marks a sample at which this body's energy or angular
+	// momentum (or the system's energy, for a massive body) was past the
+	// tolerance; only a KeepGoing run gets that far.
+	Exceeded bool
 }
 
 // Result is one integration's measurements.
@@ -61,6 +67,8 @@ type Result struct {
 	Steps           int64
 	// Breaches lists tolerance breaches seen with KeepGoing.
 	Breaches []string
+	// Exceeded marks the bodies with a tolerance breach (KeepGoing).
+	Exceeded []bool
 }
 
 // AccuracyError reports a run whose conserved quantities drifted past the
@@ -75,12 +83,22 @@ var ErrInterrupted = errors.New("interrupted")
 // Integrate runs one integration. record keeps the trajectory; progress,
 // if not nil, is called with the steps done.
 func Integrate(ctx context.Context, su Setup, record bool, progress func(done int64)) (*Result, error) {
+	return integrate(ctx, su, record, progress, nil)
+}
+
+// integrate is Integrate with a checkpoint hook (nil for none).
+func integrate(ctx context.Context, su Setup, record bool, progress func(done int64), hook *jobHook) (*Result, error) {
 	stepper, err := integrator.New(su.Method)
 	if err != nil {
 		return nil, err
 	}
 	if rk, ok := stepper.(*integrator.RK45); ok && su.Tolerance > 0 {
 		rk.Tol = su.Tolerance
+	}
+	if ap, ok := stepper.(integrator.Applicability); ok {
+		if err := ap.Applies(su.Stack, su.GM); err != nil {
+			return nil, fmt.Errorf("integrator %s: %w", su.Method, err)
+		}
 	}
 	n := len(su.GM)
 	sys := &integrator.System{
@@ -89,9 +107,19 @@ func Integrate(ctx context.Context, su Setup, record bool, progress func(done in
 	}
 	field := integrator.NewField(su.Stack, sys.GM)
 	field.Prime(sys)
+	// Time-transformed steppers (logH) take steps of varying length: they
+	// run until the planned duration, not for a count of steps.
+	_, variable := stepper.(integrator.VariableStep)
+	tEnd := float64(su.Steps) * su.H
+	finished := func(k int64) bool {
+		if variable {
+			return sys.T >= tEnd*(1-1e-12)
+		}
+		return k == su.Steps
+	}
 
 	res := &Result{Orbits: make([]observe.Orbit, n), MaxEnergyErr: make([]float64, n),
-		MaxAngMomErr: make([]float64, n), Isolated: make([]bool, n), Steps: su.Steps}
+		MaxAngMomErr: make([]float64, n), Isolated: make([]bool, n), Steps: su.Steps, Exceeded: make([]bool, n)}
 	massive := field.Massive()
 	trackers := make([]*observe.Tracker, n)
 	e0 := make([]float64, n)
@@ -106,16 +134,15 @@ func Integrate(ctx context.Context, su Setup, record bool, progress func(done in
 		x, v, a := rel(sys, i, p)
 		trackers[i] = observe.NewTracker(0, x, v, a)
 		if res.Isolated[i] {
-			mu := sys.GM[p] + sys.GM[i]
-			e0[i] = su.Stack.Energy(mu, x, v)
-			j0[i] = su.Stack.AngularMomentum(mu, x, v)
+			e0[i] = su.Stack.PairEnergy(sys.GM[p], sys.GM[i], x, v)
+			j0[i] = su.Stack.PairAngularMomentum(sys.GM[p], sys.GM[i], x, v)
 		} else {
 			res.MaxEnergyErr[i], res.MaxAngMomErr[i] = math.NaN(), math.NaN()
 		}
 	}
 	sysE0 := math.NaN()
 	res.SystemEnergyErr = math.NaN()
-	if len(massive) >= 2 && !su.Stack.VelocityDependent() {
+	if _, nbody := su.Stack.Base.(kernels.NBody); len(massive) >= 2 && (!su.Stack.VelocityDependent() || nbody) {
 		sysE0 = systemEnergy(su.Stack, sys, massive)
 		res.SystemEnergyErr = 0
 	}
@@ -135,7 +162,7 @@ func Integrate(ctx context.Context, su Setup, record bool, progress func(done in
 				}
 				if p >= 0 && res.Isolated[i] {
 					x, v, _ := rel(sys, i, p)
-					row.EnergyErr = relErr(su.Stack.Energy(sys.GM[p]+sys.GM[i], x, v), e0[i])
+					row.EnergyErr = relErr(su.Stack.PairEnergy(sys.GM[p], sys.GM[i], x, v), e0[i])
 				}
 				res.Trajectory = append(res.Trajectory, row)
 			}
@@ -143,16 +170,19 @@ func Integrate(ctx context.Context, su Setup, record bool, progress func(done in
 				continue
 			}
 			x, v, _ := rel(sys, i, p)
-			mu := sys.GM[p] + sys.GM[i]
-			de := relErr(su.Stack.Energy(mu, x, v), e0[i])
-			dj := relErr(su.Stack.AngularMomentum(mu, x, v), j0[i])
+			de := relErr(su.Stack.PairEnergy(sys.GM[p], sys.GM[i], x, v), e0[i])
+			dj := relErr(su.Stack.PairAngularMomentum(sys.GM[p], sys.GM[i], x, v), j0[i])
 			res.MaxEnergyErr[i] = math.Max(res.MaxEnergyErr[i], de)
 			res.MaxAngMomErr[i] = math.Max(res.MaxAngMomErr[i], dj)
+			breached := len(msgs)
 			if de > su.EnergyTol || math.IsNaN(de) {
 				msgs = append(msgs, fmt.Sprintf("%s: relative energy error %.3g exceeds the tolerance %.3g at t = %.6g s (step %d)", su.Names[i], de, su.EnergyTol, sys.T, step))
 			}
 			if dj > su.AngMomTol || math.IsNaN(dj) {
 				msgs = append(msgs, fmt.Sprintf("%s: relative angular-momentum error %.3g exceeds the tolerance %.3g at t = %.6g s (step %d)", su.Names[i], dj, su.AngMomTol, sys.T, step))
+			}
+			if len(msgs) > breached {
+				markExceeded(res, record, n, i)
 			}
 		}
 		if !math.IsNaN(sysE0) {
@@ -160,6 +190,9 @@ func Integrate(ctx context.Context, su Setup, record bool, progress func(done in
 			res.SystemEnergyErr = math.Max(res.SystemEnergyErr, de)
 			if de > su.EnergyTol || math.IsNaN(de) {
 				msgs = append(msgs, fmt.Sprintf("system: relative total energy error %.3g exceeds the tolerance %.3g at t = %.6g s (step %d)", de, su.EnergyTol, sys.T, step))
+				for _, i := range massive {
+					markExceeded(res, record, n, i)
+				}
 			}
 		}
 		if len(msgs) == 0 {
@@ -176,30 +209,45 @@ func Integrate(ctx context.Context, su Setup, record bool, progress func(done in
 	if err := check(0); err != nil {
 		return nil, err
 	}
-	for k := int64(1); k <= su.Steps; k++ {
+	first, err := hook.start(sys, stepper, trackers, res)
+	if err != nil {
+		return nil, err
+	}
+	if first > 1 && progress != nil {
+		progress(first - 1)
+	}
+	guard := newPairGuard(su, massive, stepper)
+	refiner := newApsisRefiner(su, stepper, massive)
+	for k := first; variable || k <= su.Steps; k++ {
+		if variable && sys.T >= tEnd*(1-1e-12) {
+			res.Steps = k - 1
+			break
+		}
 		stepper.Step(sys, field, su.H)
 		for i, tr := range trackers {
 			if tr != nil {
 				x, v, a := rel(sys, i, su.Primary[i])
+				np := len(tr.Peri)
 				tr.Observe(sys.T, x, v, a)
+				if refiner != nil && len(tr.Peri) > np {
+					refiner.refine(sys, tr, i)
+				}
 			}
 		}
-		if k%every == 0 || k == su.Steps {
+		if k%every == 0 || finished(k) {
 			if err := check(k); err != nil {
 				return nil, err
 			}
 			if progress != nil {
 				progress(k)
 			}
-			if ctx.Err() != nil {
-				return nil, ErrInterrupted
-			}
 		}
-		for i, tr := range trackers {
-			_ = i
-			if tr != nil && closeEncounter(tr) {
-				return nil, fmt.Errorf("%s came within %.3g m of its primary: a close encounter or collision; the point-mass model is not integrated through it", su.Names[i], tr.RMin)
-			}
+		if err := guard.check(sys, trackers, k); err != nil {
+			return nil, err
+		}
+		// last in the step, so that a checkpoint holds it complete
+		if err := hook.after(ctx, k, k%every == 0 || finished(k), finished(k)); err != nil {
+			return nil, err
 		}
 	}
 	for i, tr := range trackers {
@@ -210,9 +258,20 @@ func Integrate(ctx context.Context, su Setup, record bool, progress func(done in
 	return res, nil
 }
 
-// closeEncounter flags a relative orbit that has shrunk to a tiny fraction
-// of its starting size (common practice: the fixed step no longer resolves it).
-func closeEncounter(tr *observe.Tracker) bool { return tr.RMin < 1e-6*tr.RMax }
+// markExceeded flags body i's breach in the result and on its row of the
+// sample being written (among the last n rows).
+func markExceeded(res *Result, record bool, n, i int) {
+	res.Exceeded[i] = true
+	if !record {
+		return
+	}
+	for k := len(res.Trajectory) - 1; k >= 0 && k >= len(res.Trajectory)-n; k-- {
+		if res.Trajectory[k].Body == i {
+			res.Trajectory[k].Exceeded = true
+			return
+		}
+	}
+}
 
 func isolated(massive []int, i, p int) bool {
 	for _, j := range massive {
@@ -238,11 +297,16 @@ func relErr(x, x0 float64) float64 {
 // sum GM_i v_i^2/2 + sum_{i<j} GM_i Phi_j(r_ij). Exact for kernels linear
 // in mu; the Vainshtein screening is not, and there it is approximate.
 func systemEnergy(st *kernels.Stack, s *integrator.System, massive []int) float64 {
+	if nb, ok := st.Base.(kernels.NBody); ok {
+		return nbodySystemEnergy(nb, st, s, massive)
+	}
 	e := 0.0
 	for a, i := range massive {
 		e += 0.5 * s.GM[i] * s.V[i].Norm2()
 		for _, j := range massive[a+1:] {
-			e += s.GM[i] * st.Energy(s.GM[j], s.X[i].Sub(s.X[j]), vec.V{})
+			// relative velocity: gr-orbit's potential depends on h = |x x v|
+			vij := s.V[i].Sub(s.V[j])
+			e += s.GM[i] * (st.Energy(s.GM[j], s.X[i].Sub(s.X[j]), vij) - 0.5*vij.Norm2())
 		}
 	}
 	return e

@@ -39,7 +39,13 @@ type Summary struct {
 	RadialShiftNewton float64
 
 	EnergyErr, AngMomErr float64
-	Notes                string
+	// ToleranceExceeded is set when the energy or angular-momentum error
+	// went past the tolerance in a KeepGoing run: the values are suspect.
+	ToleranceExceeded bool
+	// Terms is each stacked term's first-order share of the precession
+	// (shares.go); nil for plain Newton or when it cannot be computed.
+	Terms []TermShare
+	Notes string
 }
 
 func summarize(st *Study, i int, fine, ref, refFine, newton *Result) Summary {
@@ -55,7 +61,8 @@ func summarize(st *Study, i int, fine, ref, refFine, newton *Result) Summary {
 		AzimuthalPeriod: o.AzimuthalPeriod, AzimuthalPeriodErr: scale * math.Abs(o.AzimuthalPeriod-of.AzimuthalPeriod),
 		RPeri: o.RPeri, RApo: o.RApo, SizeA: o.SizeA, Eccentricity: o.Eccentricity,
 		EnergyErr: st.Main.MaxEnergyErr[i], AngMomErr: st.Main.MaxAngMomErr[i],
-		AnomalyPerOrbit: math.NaN(), AnomalyIntErr: math.NaN(),
+		ToleranceExceeded: st.Main.Exceeded[i],
+		AnomalyPerOrbit:   math.NaN(), AnomalyIntErr: math.NaN(),
 		AnomalyPerCentury: math.NaN(), AnomalyPerCentErr: math.NaN(),
 		RadialShiftNewton: math.NaN(),
 	}
@@ -99,6 +106,7 @@ func summarize(st *Study, i int, fine, ref, refFine, newton *Result) Summary {
 	}
 	s.PrecessionMinusSemi = s.PrecessionPerOrbit - abs
 	s.AnomalyMinusSemi = s.AnomalyPerOrbit - anom
+	notes = append(notes, attachTerms(st, i, &s)...)
 	s.Notes = strings.Join(notes, "; ")
 	return s
 }

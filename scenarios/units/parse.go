@@ -1,6 +1,7 @@
 package units
 
 import (
+	"errors"
 	"fmt"
 	"math"
 	"sort"
@@ -83,6 +84,9 @@ var table = map[string]unit{
 	"kg":   {G, Mass},
 	"g":    {G * 1e-3, Mass},
 	"Msun": {GMSun, Mass},
+	// nominal terrestrial and jovian GM, IAU 2015 Resolution B3 (memory)
+	"Mearth": {3.986004e14, Mass},
+	"Mjup":   {1.2668653e17, Mass},
 	// rest energy, in eV
 	"eV":  {1, Energy},
 	"meV": {1e-3, Energy},
@@ -127,9 +131,15 @@ func Parse(s string) (Quantity, error) {
 	// the number is the longest prefix that parses as a float
 	end := numberEnd(t)
 	if end == 0 {
+		if w := strings.ToLower(strings.TrimLeft(t, "+-")); strings.HasPrefix(w, "nan") || strings.HasPrefix(w, "inf") {
+			return Quantity{}, fmt.Errorf("%q: the number is not finite (NaN and infinity are not allowed)", s)
+		}
 		return Quantity{}, fmt.Errorf("%q does not start with a number", s)
 	}
 	v, err := strconv.ParseFloat(t[:end], 64)
+	if errors.Is(err, strconv.ErrRange) {
+		return Quantity{}, fmt.Errorf("%q: the number %s is out of the float64 range", s, t[:end])
+	}
 	if err != nil {
 		return Quantity{}, fmt.Errorf("%q: bad number %q", s, t[:end])
 	}
@@ -252,6 +262,9 @@ func parseUnit(u string) (float64, Dim, error) {
 			factor /= f
 		}
 		dim = dim.mul(un.dim.pow(pow), sign)
+		if !dim.within(MaxExponent) {
+			return 0, Dim{}, fmt.Errorf("unit %q: a dimension exponent beyond %d is not a physical quantity", u, MaxExponent)
+		}
 		if j < 0 {
 			break
 		}
@@ -262,7 +275,20 @@ func parseUnit(u string) (float64, Dim, error) {
 		}
 		rest = rest[j+1:]
 	}
+	// 0 or Inf would turn the number into 0, Inf or NaN (0 * Inf)
+	if factor == 0 || math.IsInf(factor, 0) {
+		return 0, Dim{}, fmt.Errorf("unit %q is out of the float64 range in SI", u)
+	}
 	return factor, dim, nil
+}
+
+// MaxExponent bounds each exponent of a parsed unit's dimension (the
+// int8 exponents would otherwise wrap round).
+const MaxExponent = 24
+
+func (d Dim) within(n int8) bool {
+	in := func(x int8) bool { return x >= -n && x <= n }
+	return in(d.L) && in(d.T) && in(d.E) && in(d.A)
 }
 
 // Format writes an SI value with its dimension's SI unit so that Parse reads
@@ -285,6 +311,15 @@ func Format(q Quantity) string {
 	}
 	var parts []string
 	add := func(name string, p int8) {
+		// Parse takes powers up to 6 per factor: write m^14 as m^6*m^6*m^2
+		for p > 6 || p < -6 {
+			step := int8(6)
+			if p < 0 {
+				step = -6
+			}
+			parts = append(parts, name+"^"+strconv.Itoa(int(step)))
+			p -= step
+		}
 		if p == 1 {
 			parts = append(parts, name)
 		} else if p != 0 {

@@ -38,6 +38,7 @@ type SummaryRow struct {
 	PrecIntErr            *float64 `parquet:"precession_integration_error_rad_per_orbit,optional" json:"precession_integration_error_rad_per_orbit"`
 	PrecArcsecPerCentury  *float64 `parquet:"precession_arcsec_per_century,optional" json:"precession_arcsec_per_century"`
 	PrecArcsecPerCentErr  *float64 `parquet:"precession_integration_error_arcsec_per_century,optional" json:"precession_integration_error_arcsec_per_century"`
+	PrecDegPerYear        *float64 `parquet:"precession_deg_per_year,optional" json:"precession_deg_per_year"`
 	SemiPrecRadPerOrbit   *float64 `parquet:"semi_analytic_precession_rad_per_orbit,optional" json:"semi_analytic_precession_rad_per_orbit"`
 	SemiPrecArcsecPerCent *float64 `parquet:"semi_analytic_precession_arcsec_per_century,optional" json:"semi_analytic_precession_arcsec_per_century"`
 	PrecMinusSemi         *float64 `parquet:"precession_minus_semi_analytic_rad_per_orbit,optional" json:"precession_minus_semi_analytic_rad_per_orbit"`
@@ -64,7 +65,10 @@ type SummaryRow struct {
 
 	EnergyRelErr *float64 `parquet:"energy_rel_error_max,optional" json:"energy_rel_error_max"`
 	AngMomRelErr *float64 `parquet:"angular_momentum_rel_error_max,optional" json:"angular_momentum_rel_error_max"`
-	Notes        string   `parquet:"notes" json:"notes"`
+	// ToleranceExceeded: the energy or angular-momentum error passed the
+	// tolerance (the run went on under --keep-going); the values are suspect.
+	ToleranceExceeded bool   `parquet:"accuracy_tolerance_exceeded" json:"accuracy_tolerance_exceeded"`
+	Notes             string `parquet:"notes" json:"notes"`
 }
 
 // TrajectoryRow is one row of trajectory.parquet: one body at one time.
@@ -79,6 +83,8 @@ type TrajectoryRow struct {
 	VZMPerS   float64  `parquet:"vz_m_per_s"`
 	RM        float64  `parquet:"r_from_primary_m"`
 	EnergyErr *float64 `parquet:"energy_rel_error,optional"`
+	// ToleranceExceeded marks the samples where a breach was seen.
+	ToleranceExceeded bool `parquet:"accuracy_tolerance_exceeded"`
 }
 
 var nz = table.Nullable
@@ -105,6 +111,7 @@ func Summaries(st *study.Study) []SummaryRow {
 			PrecRadPerOrbit: nz(s.PrecessionPerOrbit), PrecFitStdErr: nz(s.PrecessionStdErr),
 			PrecIntErr: nz(s.PrecessionIntErr), PrecArcsecPerCentury: nz(s.PrecessionPerCentury),
 			PrecArcsecPerCentErr: nz(s.PrecessionPerCenturyErr),
+			PrecDegPerYear:       nz(study.DegPerYear(s.PrecessionPerOrbit, s.RadialPeriod)),
 			SemiPrecRadPerOrbit:  nz(s.SemiPrecessionPerOrbit), SemiPrecArcsecPerCent: nz(semiCent),
 			PrecMinusSemi:   nz(s.PrecessionMinusSemi),
 			ReferenceStack:  s.ReferenceStack,
@@ -119,7 +126,8 @@ func Summaries(st *study.Study) []SummaryRow {
 			ShiftRadialKepErr: nz(s.RadialShiftKeplerErr), ShiftAzimKepler: nz(s.AzimuthalShiftKepler),
 			ShiftRadialNewton: nz(s.RadialShiftNewton),
 			EnergyRelErr:      nz(s.EnergyErr), AngMomRelErr: nz(s.AngMomErr),
-			Notes: s.Notes,
+			ToleranceExceeded: s.ToleranceExceeded,
+			Notes:             s.Notes,
 		})
 	}
 	return rows
@@ -131,7 +139,7 @@ func Trajectory(st *study.Study) []TrajectoryRow {
 	for k, r := range st.Trajectory {
 		rows[k] = TrajectoryRow{TimeS: r.T, Body: st.Setup.Names[r.Body],
 			XM: r.X[0], YM: r.X[1], ZM: r.X[2], VXMPerS: r.V[0], VYMPerS: r.V[1], VZMPerS: r.V[2],
-			RM: r.R, EnergyErr: nz(r.EnergyErr)}
+			RM: r.R, EnergyErr: nz(r.EnergyErr), ToleranceExceeded: r.Exceeded}
 	}
 	return rows
 }
@@ -153,6 +161,9 @@ func Metadata(st *study.Study) map[string]string {
 		"mgorbit.output_every":     fmt.Sprint(st.Setup.OutputEvery),
 		"mgorbit.orbit_of":         st.Setup.Names[st.OrbitOf],
 		"mgorbit.constants":        fmt.Sprintf("au=%v m; GM_sun=%v m^3/s^2 (IAU 2015 B3); c=%v m/s; G=%v (CODATA 2018)", units.AU, units.GMSun, units.C, units.G),
+	}
+	if e := st.Main.SystemEnergyErr; !math.IsNaN(e) {
+		m["mgorbit.system_energy_rel_error_max"] = fmt.Sprint(e)
 	}
 	for k, ks := range sc.Kernels {
 		var parts []string

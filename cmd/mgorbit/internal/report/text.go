@@ -17,6 +17,9 @@ func Text(w io.Writer, st *study.Study) {
 	fmt.Fprintf(w, "%s  [%s]\n", sc.Name, sc.Source)
 	fmt.Fprintf(w, "stack %s; %s (order %d), step %s (%.4g steps per orbit of %s), %d steps, %s\n",
 		sc.Stack, su.Method, st.Order, duration(su.H), st.Period/su.H, su.Names[st.OrbitOf], su.Steps, duration(su.H*float64(su.Steps)))
+	if e := st.Main.SystemEnergyErr; !math.IsNaN(e) {
+		fmt.Fprintf(w, "total energy of the massive bodies: max relative error %s\n", err3(e, ""))
+	}
 	for _, s := range st.Summaries {
 		tw := tabwriter.NewWriter(w, 2, 4, 2, ' ', 0)
 		fmt.Fprintf(w, "\n%s about %s: %d pericentre passages, measured e = %.6g, a = %.10g au\n",
