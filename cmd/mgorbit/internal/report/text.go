@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"strings"
 	"text/tabwriter"
 
 	"mgorbit/integrator/study"
@@ -40,6 +41,13 @@ func Text(w io.Writer, st *study.Study) {
 			row("anomaly vs "+s.ReferenceStack, num(s.AnomalyPerOrbit, "rad/orbit"), "± "+err3(s.AnomalyIntErr, "integration"),
 				"semi-analytic "+num(s.SemiAnomalyPerOrbit, ""))
 			row("", num(s.AnomalyPerCentury, "arcsec/century"), "± "+err3(s.AnomalyPerCentErr, ""))
+		}
+		if len(s.Terms) > 1 {
+			var parts []string
+			for _, tm := range s.Terms {
+				parts = append(parts, fmt.Sprintf("%s %s (%.1f%%)", tm.Term, num(tm.AdvancePerOrbit, ""), 100*tm.Share))
+			}
+			row("terms (first order, rad/orbit)", strings.Join(parts, ", "))
 		}
 		row("radial period", days(s.RadialPeriod), "± "+err3(s.RadialPeriodErr/units.Day, "d"), "semi-analytic "+days(s.SemiRadialPeriod))
 		row("azimuthal period", days(s.AzimuthalPeriod), "± "+err3(s.AzimuthalPeriodErr/units.Day, "d"))
