@@ -38,6 +38,13 @@ type Applicability interface {
 	Applies(stack *kernels.Stack, gm []float64) error
 }
 
+// KeplerSplit is implemented by steppers whose drift is the exact Kepler
+// flow about the dominant mass (Wisdom-Holman): the step need not resolve
+// the pericentre passage, only the perturbation.
+type KeplerSplit interface {
+	ExactKeplerDrift()
+}
+
 // VariableStep is implemented by time-transformed steppers: Step(h)
 // advances s.T by an amount that varies along the orbit (short near
 // pericentre), h setting the mean. Drivers loop until s.T reaches the

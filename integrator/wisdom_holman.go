@@ -103,6 +103,9 @@ const DominanceLimit = 0.05
 
 // Applies reports whether the map can integrate a system with these GM
 // values under stack, and if not, why.
+// ExactKeplerDrift implements KeplerSplit.
+func (w *WisdomHolman) ExactKeplerDrift() {}
+
 func (w *WisdomHolman) Applies(stack *kernels.Stack, gm []float64) error {
 	return wisdomHolmanApplies(stack, gm)
 }

@@ -367,6 +367,19 @@ func TestKernelParameters(t *testing.T) {
 	}
 }
 
+// TestStepLimitSkippedForKeplerDrift: the Wisdom-Holman drift is the exact
+// Kepler flow, so 30 steps per orbit of an e = 0.6 orbit, far coarser than
+// the fixed-step limit, is accepted there and refused for yoshida6.
+func TestStepLimitSkippedForKeplerDrift(t *testing.T) {
+	body := planet("e = 0.21", "e = 0.6")
+	if _, err := Parse("wh.toml", []byte(scenario("[integrator]\nmethod = \"wisdom-holman-4\"\nsteps_per_orbit = 30.3", starBody, body))); err != nil {
+		t.Errorf("wisdom-holman-4 at 30.3 steps per orbit refused: %v", err)
+	}
+	if _, err := Parse("y6.toml", []byte(scenario("[integrator]\nmethod = \"yoshida6\"\nsteps_per_orbit = 30.3", starBody, body))); err == nil {
+		t.Error("yoshida6 at 30.3 steps per orbit of an e = 0.6 orbit accepted")
+	}
+}
+
 // TestStepLimit: the step check's threshold is r_p/v_p / 20, which for a
 // Kepler ellipse is P/(2 pi) (1 - e)^(3/2) / (1 + e)^(1/2) / 20 (from r_p =
 // a (1 - e) and vis-viva); 1% either side of it passes and fails, and the
@@ -375,7 +388,7 @@ func TestStepLimit(t *testing.T) {
 	for _, e := range []float64{0, 0.21, 0.5, 0.8} {
 		need := 20 * 2 * math.Pi * math.Sqrt(1+e) / math.Pow(1-e, 1.5)
 		text := func(steps float64) string {
-			return scenario("[integrator]\nsteps_per_orbit = "+strconv.FormatFloat(steps, 'g', -1, 64),
+			return scenario("[integrator]\nmethod = \"yoshida6\"\nsteps_per_orbit = "+strconv.FormatFloat(steps, 'g', -1, 64),
 				starBody, planet("e = 0.21", "e = "+strconv.FormatFloat(e, 'g', -1, 64)))
 		}
 		if _, err := Parse("ok.toml", []byte(text(need*1.01))); err != nil {

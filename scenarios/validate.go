@@ -69,10 +69,13 @@ func (b *builder) checkTiming() {
 			total/period, ref.name, fmtTime(period), MinPeriods, MinPeriods, fmtTimeRounded(MinPeriods*period, math.Ceil))
 	}
 
-	// rk45 chooses its own steps by error control, and the time-transformed
-	// steppers shorten theirs at pericentre by construction
+	// rk45 chooses its own steps by error control, the time-transformed
+	// steppers shorten theirs at pericentre by construction, and the
+	// Wisdom-Holman drift is the exact Kepler flow through it
 	if st, err := integrator.New(is.Method); err == nil {
-		if _, variable := st.(integrator.VariableStep); !variable && is.Method != "rk45" {
+		_, variable := st.(integrator.VariableStep)
+		_, kepler := st.(integrator.KeplerSplit)
+		if !variable && !kepler && is.Method != "rk45" {
 			b.checkPericentreStep(step, period, ref, stepField, stepValue)
 		}
 	}
@@ -80,7 +83,21 @@ func (b *builder) checkTiming() {
 	if is.OutputEvery == 0 {
 		is.OutputEvery = max(1, int(math.Floor(period/step/RowsPerOrbit)))
 	}
+	b.checkRadialOrbits()
 	b.checkKernelDomains()
+}
+
+// checkRadialOrbits refuses bodies that start moving straight at or away
+// from their primary: whatever the integrator, they fall in.
+func (b *builder) checkRadialOrbits() {
+	for _, bs := range b.bodies {
+		if bs.parent == nil || !(bs.mu > 0) {
+			continue
+		}
+		if bs.relX.Cross(bs.relV).Norm() == 0 {
+			b.r.add(bs.t.path, nil, "moves straight towards or away from its primary %s (zero angular momentum): it would fall in", bs.primary)
+		}
+	}
 }
 
 // checkKernelDomains refuses orbits that start outside a kernel's domain
@@ -140,8 +157,7 @@ func (b *builder) checkPericentreStep(step, period float64, ref *bodySpec, field
 		h := bs.relX.Cross(bs.relV)
 		hn := h.Norm()
 		if hn == 0 {
-			b.r.add(bs.t.path, nil, "moves straight towards or away from its primary %s (zero angular momentum): it would fall in", bs.primary)
-			continue
+			continue // refused by checkRadialOrbits
 		}
 		// pericentre of the osculating conic: p = h^2/mu, r_p = p/(1+e),
 		// v_p = h/r_p, so r_p/v_p = r_p^2/h

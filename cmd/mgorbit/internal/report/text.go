@@ -34,7 +34,8 @@ func Text(w io.Writer, st *study.Study) {
 		}
 		row("precession", num(s.PrecessionPerOrbit, "rad/orbit"), "± "+err3(s.PrecessionIntErr, "integration"),
 			"± "+err3(s.PrecessionStdErr, "fit"))
-		row("", num(s.PrecessionPerCentury, "arcsec/century"), "± "+err3(s.PrecessionPerCenturyErr, ""))
+		row("", num(s.PrecessionPerCentury, "arcsec/century"), "± "+err3(s.PrecessionPerCenturyErr, ""),
+			num(study.DegPerYear(s.PrecessionPerOrbit, s.RadialPeriod), "deg/yr"))
 		row("semi-analytic", num(s.SemiPrecessionPerOrbit, "rad/orbit"), "["+s.SemiPath+"]",
 			"integrated minus semi-analytic "+err3(s.PrecessionMinusSemi, ""))
 		if s.ReferenceStack != "" {
