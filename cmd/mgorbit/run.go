@@ -23,8 +23,9 @@ func newRunCmd() *cobra.Command {
 		Use:   "run [SCENARIO]",
 		Short: "Integrate a scenario and write summary.parquet and trajectory.parquet",
 		Long: `Integrate a scenario file (TOML) or a built-in scenario and write
-DIR/summary.parquet (one row per orbiting body) and DIR/trajectory.parquet
-(one row per body per output time). Without SCENARIO the built-in default
+DIR/summary.parquet (one row per orbiting body), DIR/trajectory.parquet
+(one row per body per output time) and DIR/terms.parquet (each body's
+precession split by stacked term, first order). Without SCENARIO the built-in default
 runs. Each result carries an integration-error estimate from a second run at
 half the step, the anomaly against the stack without its corrections, and a
 semi-analytic reference where one applies.
@@ -57,8 +58,9 @@ encounter), 4 interrupted (checkpoint saved), 5 collision.`,
 			}
 			sumPath := filepath.Join(out, "summary.parquet")
 			trajPath := filepath.Join(out, "trajectory.parquet")
+			termsPath := filepath.Join(out, "terms.parquet")
 			if !force {
-				for _, p := range []string{sumPath, trajPath} {
+				for _, p := range []string{sumPath, trajPath, termsPath} {
 					if _, err := os.Stat(p); err == nil {
 						return inputError{fmt.Errorf("%s exists; pass --force to replace it, or choose another --out", p)}
 					}
@@ -105,6 +107,9 @@ encounter), 4 interrupted (checkpoint saved), 5 collision.`,
 			if err := table.Write(trajPath, report.Trajectory(st), meta, force); err != nil {
 				return err
 			}
+			if err := table.Write(termsPath, report.Terms(st), meta, force); err != nil {
+				return err
+			}
 			if err := ck.done(cmd.ErrOrStderr(), quiet || asJSON); err != nil {
 				return err
 			}
@@ -116,7 +121,7 @@ encounter), 4 interrupted (checkpoint saved), 5 collision.`,
 				return enc.Encode(rows)
 			case !quiet:
 				report.Text(stdout, st)
-				fmt.Fprintf(stdout, "\nwrote %s and %s\n", sumPath, trajPath)
+				fmt.Fprintf(stdout, "\nwrote %s, %s and %s\n", sumPath, trajPath, termsPath)
 			}
 			for _, w := range st.Warnings {
 				if quiet || asJSON {

@@ -67,15 +67,15 @@ type SummaryRow struct {
 	AngMomRelErr *float64 `parquet:"angular_momentum_rel_error_max,optional" json:"angular_momentum_rel_error_max"`
 	// ToleranceExceeded: the energy or angular-momentum error passed the
 	// tolerance (the run went on under --keep-going); the values are suspect.
-	ToleranceExceeded bool `parquet:"accuracy_tolerance_exceeded" json:"accuracy_tolerance_exceeded"`
-	// Terms lists each stacked term's first-order share of the precession
-	// (a list column: DuckDB's unnest, Polars' explode).
-	Terms []TermRow `parquet:"precession_terms,list" json:"precession_terms"`
-	Notes string    `parquet:"notes" json:"notes"`
+	ToleranceExceeded bool   `parquet:"accuracy_tolerance_exceeded" json:"accuracy_tolerance_exceeded"`
+	Notes             string `parquet:"notes" json:"notes"`
 }
 
-// TermRow is one stacked term's first-order (Gauss) part of the precession.
+// TermRow is one row of terms.parquet: one stacked term's first-order
+// (Gauss) part of one body's precession.
 type TermRow struct {
+	Scenario             string   `parquet:"scenario" json:"scenario"`
+	Body                 string   `parquet:"body" json:"body"`
 	Term                 string   `parquet:"term" json:"term"`
 	Role                 string   `parquet:"role" json:"role"`
 	AdvanceRadPerOrbit   *float64 `parquet:"advance_rad_per_orbit,optional" json:"advance_rad_per_orbit"`
@@ -114,13 +114,7 @@ func Summaries(st *study.Study) []SummaryRow {
 			}
 			semiCent = study.PerCentury(s.SemiPrecessionPerOrbit, p)
 		}
-		var terms []TermRow
-		for _, tm := range s.Terms {
-			terms = append(terms, TermRow{Term: tm.Term, Role: tm.Role, AdvanceRadPerOrbit: nz(tm.AdvancePerOrbit),
-				AdvanceArcsecPerCent: nz(tm.AdvancePerCentury), Share: nz(tm.Share)})
-		}
 		rows = append(rows, SummaryRow{
-			Terms:    terms,
 			Scenario: st.Scenario.Name, Body: s.Body, Primary: s.Primary,
 			Kernels: st.Scenario.Stack.String(), Method: su.Method,
 			StepS: su.H, StepsPerOrbit: st.Period / su.H, DurationS: su.H * float64(su.Steps),
@@ -147,6 +141,19 @@ func Summaries(st *study.Study) []SummaryRow {
 			ToleranceExceeded: s.ToleranceExceeded,
 			Notes:             s.Notes,
 		})
+	}
+	return rows
+}
+
+// Terms builds the rows of terms.parquet: each body's precession split by
+// stacked term (first order), in stack order.
+func Terms(st *study.Study) []TermRow {
+	var rows []TermRow
+	for _, s := range st.Summaries {
+		for _, tm := range s.Terms {
+			rows = append(rows, TermRow{Scenario: st.Scenario.Name, Body: s.Body, Term: tm.Term, Role: tm.Role,
+				AdvanceRadPerOrbit: nz(tm.AdvancePerOrbit), AdvanceArcsecPerCent: nz(tm.AdvancePerCentury), Share: nz(tm.Share)})
+		}
 	}
 	return rows
 }
