@@ -25,6 +25,7 @@ const (
 	exitBadInput    = 2
 	exitAccuracy    = 3
 	exitInterrupted = 4
+	exitCollision   = 5
 )
 
 // inputError marks a problem with what the user gave (scenario, flags).
@@ -34,8 +35,17 @@ func (e inputError) Error() string { return e.err.Error() }
 func (e inputError) Unwrap() error { return e.err }
 
 func main() {
-	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
-	defer stop()
+	ctx, cancel := context.WithCancel(context.Background())
+	defer cancel()
+	sigs := make(chan os.Signal, 1)
+	signal.Notify(sigs, os.Interrupt, syscall.SIGTERM)
+	go func() {
+		s := <-sigs
+		// A second signal takes the default action: stop at once.
+		signal.Stop(sigs)
+		fmt.Fprintf(os.Stderr, "\nmgorbit: %v: stopping after the current step (a run saves a checkpoint); signal again to stop at once\n", s)
+		cancel()
+	}()
 	root := newRoot()
 	err := root.ExecuteContext(ctx)
 	os.Exit(exitCode(err))
@@ -47,8 +57,11 @@ func exitCode(err error) int {
 	}
 	fmt.Fprintln(os.Stderr, "mgorbit:", err)
 	var acc *study.AccuracyError
+	var col *study.CollisionError
 	var in inputError
 	switch {
+	case errors.As(err, &col):
+		return exitCollision
 	case errors.As(err, &acc):
 		return exitAccuracy
 	case errors.Is(err, study.ErrInterrupted):
@@ -75,7 +88,7 @@ ephemeris production.`,
 		SilenceErrors: true,
 		Version:       report.Version,
 	}
-	root.AddCommand(newRunCmd(), newScenariosCmd(), newKernelsCmd())
+	root.AddCommand(newRunCmd(), newScenariosCmd(), newKernelsCmd(), newScanCmd(), newPlotCmd(), newMergeCmd(), newDeflectionCmd())
 	return root
 }
 
