@@ -173,9 +173,11 @@ func runScan(cmd *cobra.Command, arg string, fl scanFlags) error {
 			}
 			_ = bar.Set(done)
 		}
-	default:
+	case os.Getenv("SLURM_JOB_ID") != "":
+		// a batch job's log: a line every 10 s is how one watches it
 		opt.Progress = scan.ProgressLines(os.Stderr, "mgorbit scan: ", 10*time.Second)
 	}
+	// otherwise (piped, redirected) stay quiet
 	res, err := scan.Run(cmd.Context(), spec, opt)
 	if bar != nil {
 		_ = bar.Finish()
