@@ -51,24 +51,6 @@ func freePortPair(t *testing.T) int {
 	return 0
 }
 
-func repoRoot(t *testing.T) string {
-	t.Helper()
-	dir, err := os.Getwd()
-	if err != nil {
-		t.Fatal(err)
-	}
-	for {
-		if _, err := os.Stat(filepath.Join(dir, "go.mod")); err == nil {
-			return dir
-		}
-		parent := filepath.Dir(dir)
-		if parent == dir {
-			t.Fatal("go.mod not found")
-		}
-		dir = parent
-	}
-}
-
 // TestExternalSlurmArray runs a scan as a real Slurm job array: a one-node
 // cluster on this machine (testdata/slurm/cluster.sh), the script that
 // mgorbit scan --emit-slurm writes, submitted with sbatch; then mgorbit
@@ -83,7 +65,7 @@ func TestExternalSlurmArray(t *testing.T) {
 			slurmMissing(t, tool+" not found: run testdata/slurm/cluster.sh install (Debian's slurm-wlm and munge)")
 		}
 	}
-	script := filepath.Join(repoRoot(t), "testdata", "slurm", "cluster.sh")
+	script := filepath.Join(external.RepoRoot(t), "testdata", "slurm", "cluster.sh")
 	t0 := time.Now()
 	bin := build(t)
 	t.Logf("built mgorbit in %.1f s", time.Since(t0).Seconds())

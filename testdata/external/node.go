@@ -19,7 +19,7 @@ func DuckDB(t testing.TB) (node, script string) {
 	if err != nil {
 		duckdbMissing(t, "node not found on PATH")
 	}
-	root := duckdbRepoRoot(t)
+	root := RepoRoot(t)
 	script = filepath.Join(root, "testdata", "duckdb", "check.mjs")
 	if _, err := os.Stat(script); err != nil {
 		t.Fatalf("DuckDB check script: %v", err)
@@ -59,8 +59,8 @@ func duckdbMissing(t testing.TB, why string) {
 	t.Skipf("skipping: DuckDB reader unavailable: %s", why)
 }
 
-// duckdbRepoRoot walks up from the test's working directory to go.mod.
-func duckdbRepoRoot(t testing.TB) string {
+// RepoRoot walks up from the test's working directory to go.mod.
+func RepoRoot(t testing.TB) string {
 	t.Helper()
 	dir, err := os.Getwd()
 	if err != nil {
