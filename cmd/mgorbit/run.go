@@ -110,18 +110,21 @@ encounter), 4 interrupted (checkpoint saved), 5 collision.`,
 			if err := table.Write(termsPath, report.Terms(st), meta, force); err != nil {
 				return err
 			}
-			if err := ck.done(cmd.ErrOrStderr(), quiet || asJSON); err != nil {
-				return err
-			}
 			stdout := cmd.OutOrStdout()
 			switch {
 			case asJSON:
 				enc := json.NewEncoder(stdout)
 				enc.SetIndent("", "  ")
-				return enc.Encode(rows)
+				if err := enc.Encode(rows); err != nil {
+					return err
+				}
 			case !quiet:
 				report.Text(stdout, st)
 				fmt.Fprintf(stdout, "\nwrote %s, %s and %s\n", sumPath, trajPath, termsPath)
+			}
+			// after the summary, so its steps-computed line comes last
+			if err := ck.done(cmd.ErrOrStderr(), quiet || asJSON); err != nil {
+				return err
 			}
 			for _, w := range st.Warnings {
 				if quiet || asJSON {
@@ -132,7 +135,7 @@ encounter), 4 interrupted (checkpoint saved), 5 collision.`,
 		},
 	}
 	f := cmd.Flags()
-	f.StringVar(&out, "out", "mgorbit-out", "directory for summary.parquet and trajectory.parquet")
+	f.StringVar(&out, "out", "mgorbit-out", "directory for summary.parquet, trajectory.parquet and terms.parquet")
 	f.BoolVar(&asJSON, "json", false, "print the summary as JSON on stdout instead of the table")
 	f.BoolVar(&quiet, "quiet", false, "no progress bar and no table")
 	f.BoolVar(&force, "force", false, "replace existing output files")
