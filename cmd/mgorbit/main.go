@@ -88,7 +88,7 @@ ephemeris production.`,
 		SilenceErrors: true,
 		Version:       report.Version,
 	}
-	root.AddCommand(newRunCmd(), newScenariosCmd(), newKernelsCmd(), newScanCmd(), newPlotCmd(), newMergeCmd(), newDeflectionCmd())
+	root.AddCommand(newRunCmd(), newScenariosCmd(), newKernelsCmd(), newScanCmd(), newPlotCmd(), newMergeCmd(), newDeflectionCmd(), newBoundsCmd())
 	return root
 }
 

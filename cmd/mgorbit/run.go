@@ -21,7 +21,7 @@ func newRunCmd() *cobra.Command {
 	var asJSON, quiet, force, keepGoing, resume bool
 	cmd := &cobra.Command{
 		Use:   "run [SCENARIO]",
-		Short: "Integrate a scenario and write summary.parquet and trajectory.parquet",
+		Short: "Integrate a scenario and write summary, trajectory and terms tables (Parquet)",
 		Long: `Integrate a scenario file (TOML) or a built-in scenario and write
 DIR/summary.parquet (one row per orbiting body), DIR/trajectory.parquet
 (one row per body per output time) and DIR/terms.parquet (each body's

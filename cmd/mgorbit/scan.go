@@ -33,6 +33,7 @@ type scanFlags struct {
 	slurmTasks, slurmCPUs     int
 	slurmTime, slurmPartition string
 	slurmExtra                []string
+	judge                     boundsFlags
 }
 
 func newScanCmd() *cobra.Command {
@@ -93,6 +94,7 @@ also draws DIR/scan.png; mgorbit plot redraws from the table.`,
 	f.BoolVar(&fl.noPlot, "no-plot", false, "do not draw scan.png")
 	f.StringVar(&fl.plotY, "plot-y", "", "column for the y axis of scan.png (default: anomaly, else precession, per century)")
 	f.Float64SliceVar(&fl.bounds, "bound", nil, "horizontal bound line(s) on scan.png, in the y column's unit")
+	addBoundsFlags(f, &fl.judge)
 	f.StringVar(&fl.emit, "emit-slurm", "", "write an sbatch job-array script for this scan to FILE and exit")
 	f.IntVar(&fl.slurmTasks, "slurm-tasks", 4, "with --emit-slurm: array tasks (shards)")
 	f.IntVar(&fl.slurmCPUs, "slurm-cpus", 1, "with --emit-slurm: CPUs per task (its worker count)")
@@ -122,6 +124,14 @@ func runScan(cmd *cobra.Command, arg string, fl scanFlags) error {
 	spec, err := scan.NewSpec(sc, axes, method, fl.keepGoing)
 	if err != nil {
 		return asInput(err)
+	}
+	// The bounds file is checked before any point is computed.
+	judge, err := fl.judge.load()
+	if err != nil {
+		return err
+	}
+	if judge != nil && (fl.emit != "" || fl.shard != "" || os.Getenv("SLURM_ARRAY_TASK_ID") != "") {
+		return inputError{fmt.Errorf(splitRefusal)}
 	}
 	table := filepath.Join(fl.out, "scan.parquet")
 	stdout := cmd.OutOrStdout()
@@ -185,6 +195,9 @@ func runScan(cmd *cobra.Command, arg string, fl scanFlags) error {
 	if err != nil {
 		return asInput(err)
 	}
+	if fl.quiet && !res.AlreadyComplete {
+		return judge.judgeScan(io.Discard, out, spec)
+	}
 	if fl.quiet {
 		return nil
 	}
@@ -205,6 +218,9 @@ func runScan(cmd *cobra.Command, arg string, fl scanFlags) error {
 	if res.Failed > 0 {
 		fmt.Fprintf(stdout, "WARNING: %d points failed; their rows have point_error set\n", res.Failed)
 	}
+	if err := judge.judgeScan(stdout, out, spec); err != nil {
+		return err
+	}
 	if shard == scan.Whole && !fl.noPlot {
 		if err := defaultPlot(stdout, out, fl); err != nil {
 			fmt.Fprintf(os.Stderr, "mgorbit scan: no plot drawn: %v\n", err)
@@ -219,6 +235,9 @@ func defaultPlot(w io.Writer, table string, fl scanFlags) error {
 	t, err := scan.ReadTable(table)
 	if err != nil {
 		return err
+	}
+	if isJudged(t) {
+		return drawJudged(w, t, filepath.Join(filepath.Dir(table), "scan.png"), fl.plotY, fl.bounds)
 	}
 	fig := plot.Figure{Y: fl.plotY}
 	if fig.Y == "" {

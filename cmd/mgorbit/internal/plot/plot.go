@@ -41,6 +41,8 @@ type Figure struct {
 	// and span more than a factor 10.
 	LogX, LogY string
 	Bounds     []Bound
+	// Shade marks x intervals (such as those bounds exclude) under the curves.
+	Shade []Span
 	// Reference is a column drawn as a dashed line beside each curve, such
 	// as the semi-analytic counterpart of an integrated y ("" none).
 	Reference string
@@ -212,6 +214,7 @@ func Draw(t *scan.Table, f Figure, path string) (*Drawn, error) {
 		}
 		return y
 	}
+	addShading(p, f.Shade, tx)
 	p.Add(plotter.NewGrid())
 
 	ids := make([]string, 0, len(curves))
