@@ -66,10 +66,19 @@ sbatch array script for the scan instead of running it; mgorbit merge joins
 the parts. Interrupted scans keep their finished points: rerun with --resume.
 
 With one swept axis (or two, the second with at most 12 values) the scan
-also draws DIR/scan.png; mgorbit plot redraws from the table.`,
+also draws DIR/scan.png; mgorbit plot redraws from the table.
+
+--bounds FILE judges every point against measured values and limits (see
+mgorbit bounds): the table gets the columns allowed, excluded_by and
+bound_NAME_pull, DIR/scan.boundary.parquet the boundary along the last axis,
+and scan.png shades the excluded region (two axes: a map of it).
+--deflection-at B adds light-deflection columns (gamma_deflection_minus_1)
+at impact parameter B; a gamma bound that states where it was measured
+adds them by itself.`,
 		Example: `  mgorbit scan yukawa.toml --sweep 'kernel.yukawa.lambda=log:0.1 au:100 au:40' --method semi
   mgorbit scan --sweep 'body.Tiber.e=lin:0.05:0.6:12' --sweep 'body.Aster.mass=list:0.5 Msun,1 Msun'
   mgorbit scan my.toml --sweep 'kernel.vainshtein.r_c=log:1e17 m:1e20 m:7' --shard 2/4
+  mgorbit scan testdata/bounds/tiber-yukawa.toml --sweep 'kernel.yukawa.lambda=log:0.001 au:10000 au:57' --sweep 'kernel.yukawa.alpha=log:1e-12:1e-2:61' --method semi --bounds testdata/bounds/example.toml
   mgorbit scan my.toml --sweep ... --emit-slurm scan.sbatch --slurm-tasks 16 && sbatch scan.sbatch`,
 		Args: cobra.MaximumNArgs(1),
 		RunE: func(cmd *cobra.Command, args []string) error {

@@ -20,6 +20,9 @@ import (
 type Bound struct {
 	Value float64
 	Label string
+	// Group: bounds with the same non-empty Group (the two edges of one
+	// interval) share a colour and the first one's legend entry.
+	Group string
 }
 
 // Log axis choices.
@@ -328,6 +331,7 @@ func Draw(t *scan.Table, f Figure, path string) (*Drawn, error) {
 		p.Legend.Add(yName+" (points)", key)
 		p.Legend.Add(refName+" (dashes)", dash)
 	}
+	groupColour := map[string]int{}
 	for k, b := range f.Bounds {
 		v := sgn * b.Value
 		if out.LogY && !(v > 0) {
@@ -337,10 +341,20 @@ func Draw(t *scan.Table, f Figure, path string) (*Drawn, error) {
 		if err != nil {
 			return nil, err
 		}
-		bl.Color = plotutil.Color(len(ids) + k)
+		ci, seen := groupColour[b.Group]
+		if !seen {
+			ci = len(ids) + k
+			if b.Group != "" {
+				groupColour[b.Group] = ci
+			}
+		}
+		bl.Color = plotutil.Color(ci)
 		bl.Width = vg.Points(1.5)
 		bl.Dashes = []vg.Length{vg.Points(6), vg.Points(3)}
 		p.Add(bl)
+		if seen {
+			continue
+		}
 		label := b.Label
 		if label == "" {
 			label = "bound " + strconv.FormatFloat(b.Value, 'g', 4, 64)
