@@ -224,3 +224,11 @@ func keyPath(s string) string {
 	}
 	return strings.Join(parts, ".")
 }
+
+// TOMLText writes a decoded TOML value back in TOML syntax, for messages
+// about other TOML files the project reads (bounds files).
+func TOMLText(v any) string { return tomlText(v) }
+
+// LocateKeys maps field paths (table.key, array[2], array[2].key) to the
+// line of text that writes them, for messages about other TOML files.
+func LocateKeys(text string) map[string]int { return locateKeys(text) }

@@ -106,7 +106,7 @@ func (b *Bound) Field(key string) string {
 func (b *Bound) Problem(key string, value any, format string, args ...any) *scenarios.Problem {
 	p := &scenarios.Problem{File: b.file, Field: b.Field(key), Msg: fmt.Sprintf(format, args...)}
 	if value != nil {
-		p.Value = tomlText(value)
+		p.Value = scenarios.TOMLText(value)
 	}
 	p.Line = b.lines[b.Field(key)]
 	if p.Line == 0 {
@@ -163,12 +163,12 @@ func Load(path string) (*Set, error) {
 // messages. Every problem is reported at once, as scenarios.Problems.
 func Parse(name string, text []byte) (*Set, error) {
 	sum := sha256.Sum256(text)
-	set := &Set{File: name, Text: string(text), Hash: hex.EncodeToString(sum[:]), lines: keyLines(string(text))}
+	set := &Set{File: name, Text: string(text), Hash: hex.EncodeToString(sum[:]), lines: scenarios.LocateKeys(string(text))}
 	var probs scenarios.Problems
 	add := func(field string, value any, format string, args ...any) {
 		p := &scenarios.Problem{File: name, Field: field, Line: set.line(field), Msg: fmt.Sprintf(format, args...)}
 		if value != nil {
-			p.Value = tomlText(value)
+			p.Value = scenarios.TOMLText(value)
 		}
 		probs = append(probs, p)
 	}
@@ -439,68 +439,4 @@ func contains(list []string, s string) bool {
 		}
 	}
 	return false
-}
-
-// tomlText writes a decoded value back in TOML syntax for messages.
-func tomlText(v any) string {
-	switch x := v.(type) {
-	case string:
-		return strconv.Quote(x)
-	case float64:
-		return strconv.FormatFloat(x, 'g', -1, 64)
-	case int64:
-		return strconv.FormatInt(x, 10)
-	case bool:
-		return strconv.FormatBool(x)
-	case map[string]any, []map[string]any:
-		return "{...}"
-	}
-	return fmt.Sprint(v)
-}
-
-// keyLines maps key paths (bound[2], bound[2].sigma, combine.rule) to the
-// line that writes them: the TOML decoder gives lines only for syntax
-// errors. It reads table headers and key lines; what it misses has no line.
-func keyLines(text string) map[string]int {
-	out := map[string]int{}
-	count := map[string]int{}
-	table := ""
-	for n, raw := range strings.Split(text, "\n") {
-		s := strings.TrimSpace(raw)
-		if s == "" || s[0] == '#' {
-			continue
-		}
-		if strings.HasPrefix(s, "[[") {
-			if end := strings.Index(s, "]]"); end > 0 {
-				name := strings.TrimSpace(s[2:end])
-				count[name]++
-				table = fmt.Sprintf("%s[%d]", name, count[name])
-				setFirst(out, table, n+1)
-			}
-			continue
-		}
-		if s[0] == '[' {
-			if end := strings.IndexByte(s, ']'); end > 0 {
-				table = strings.TrimSpace(s[1:end])
-				setFirst(out, table, n+1)
-			}
-			continue
-		}
-		eq := strings.IndexByte(s, '=')
-		if eq <= 0 {
-			continue
-		}
-		key := strings.Trim(strings.TrimSpace(s[:eq]), `"'`)
-		if table != "" {
-			key = table + "." + key
-		}
-		setFirst(out, key, n+1)
-	}
-	return out
-}
-
-func setFirst(m map[string]int, k string, v int) {
-	if _, ok := m[k]; !ok {
-		m[k] = v
-	}
 }
