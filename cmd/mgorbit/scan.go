@@ -118,13 +118,9 @@ func runScan(cmd *cobra.Command, arg string, fl scanFlags) error {
 	if err != nil {
 		return err
 	}
-	var axes []scan.Axis
-	for _, s := range fl.sweeps {
-		ax, err := scan.ParseSweep(s)
-		if err != nil {
-			return inputError{err}
-		}
-		axes = append(axes, ax)
+	axes, err := scan.ParseSweeps(fl.sweeps)
+	if err != nil {
+		return inputError{err}
 	}
 	method, err := scan.ParseMethod(fl.method)
 	if err != nil {

@@ -28,13 +28,9 @@ func runScan(t testing.TB, text string, method scan.Method, sweeps ...string) (*
 	if err != nil {
 		t.Fatal(err)
 	}
-	var axes []scan.Axis
-	for _, s := range sweeps {
-		ax, err := scan.ParseSweep(s)
-		if err != nil {
-			t.Fatal(err)
-		}
-		axes = append(axes, ax)
+	axes, err := scan.ParseSweeps(sweeps)
+	if err != nil {
+		t.Fatal(err)
 	}
 	spec, err := scan.NewSpec(sc, axes, method, false)
 	if err != nil {
@@ -72,13 +68,9 @@ func apply(t testing.TB, tab *scan.Table, set *Set) *Applied {
 // floats reads a column as float64 (NaN for NULL).
 func floats(t testing.TB, tab *scan.Table, name string) []float64 {
 	t.Helper()
-	c := tab.Column(name)
-	if c < 0 {
-		t.Fatalf("no column %s in %v", name, tab.ColumnNames())
-	}
-	out := make([]float64, len(tab.Rows))
-	for r := range tab.Rows {
-		out[r] = tab.Float(r, c)
+	out, err := tab.Floats(name)
+	if err != nil {
+		t.Fatal(err)
 	}
 	return out
 }

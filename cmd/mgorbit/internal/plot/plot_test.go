@@ -31,13 +31,9 @@ func scanTable(t *testing.T, method scan.Method, sweeps ...string) *scan.Table {
 	if err != nil {
 		t.Fatal(err)
 	}
-	var axes []scan.Axis
-	for _, s := range sweeps {
-		ax, err := scan.ParseSweep(s)
-		if err != nil {
-			t.Fatal(err)
-		}
-		axes = append(axes, ax)
+	axes, err := scan.ParseSweeps(sweeps)
+	if err != nil {
+		t.Fatal(err)
 	}
 	spec, err := scan.NewSpec(sc, axes, method, false)
 	if err != nil {

@@ -336,3 +336,16 @@ func sanitize(p string) string {
 	}
 	return b.String()
 }
+
+// ParseSweeps parses several sweeps, one axis each, in order.
+func ParseSweeps(sweeps []string) ([]Axis, error) {
+	var axes []Axis
+	for _, s := range sweeps {
+		ax, err := ParseSweep(s)
+		if err != nil {
+			return nil, err
+		}
+		axes = append(axes, ax)
+	}
+	return axes, nil
+}

@@ -35,13 +35,9 @@ func parseScenario(t testing.TB, text string) *scenarios.Scenario {
 
 func newSpec(t testing.TB, text string, method Method, sweeps ...string) *Spec {
 	t.Helper()
-	var axes []Axis
-	for _, s := range sweeps {
-		ax, err := ParseSweep(s)
-		if err != nil {
-			t.Fatal(err)
-		}
-		axes = append(axes, ax)
+	axes, err := ParseSweeps(sweeps)
+	if err != nil {
+		t.Fatal(err)
 	}
 	spec, err := NewSpec(parseScenario(t, text), axes, method, false)
 	if err != nil {
@@ -70,13 +66,9 @@ func runScan(t testing.TB, spec *Spec, opt Options) (*Table, *Result) {
 // column returns a column's values as float64 (NaN for NULL).
 func column(t testing.TB, tab *Table, name string) []float64 {
 	t.Helper()
-	c := tab.Column(name)
-	if c < 0 {
-		t.Fatalf("no column %s in %v", name, tab.ColumnNames())
-	}
-	out := make([]float64, len(tab.Rows))
-	for r := range tab.Rows {
-		out[r] = tab.Float(r, c)
+	out, err := tab.Floats(name)
+	if err != nil {
+		t.Fatal(err)
 	}
 	return out
 }

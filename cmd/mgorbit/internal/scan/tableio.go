@@ -95,6 +95,19 @@ func (t *Table) Float(r, c int) float64 {
 	return math.NaN()
 }
 
+// Floats returns a whole column as float64 (NaN for NULL).
+func (t *Table) Floats(name string) ([]float64, error) {
+	c := t.Column(name)
+	if c < 0 {
+		return nil, fmt.Errorf("no column %s in %v", name, t.ColumnNames())
+	}
+	out := make([]float64, len(t.Rows))
+	for r := range t.Rows {
+		out[r] = t.Float(r, c)
+	}
+	return out, nil
+}
+
 // String returns row r's value in column c as text ("" for NULL).
 func (t *Table) String(r, c int) string {
 	v := t.value(r, c)
