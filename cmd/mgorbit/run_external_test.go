@@ -4,7 +4,6 @@ import (
 	"bytes"
 	"encoding/json"
 	"math"
-	"os/exec"
 	"path/filepath"
 	"strconv"
 	"testing"
@@ -26,32 +25,6 @@ func runCLI(t *testing.T, args ...string) []byte {
 	return out.Bytes()
 }
 
-type duckOutput struct {
-	RowCount int `json:"row_count"`
-	Columns  []struct {
-		Name string `json:"name"`
-		Type string `json:"type"`
-	} `json:"columns"`
-	Rows  [][]any `json:"rows"`
-	Files []struct {
-		KV map[string]string `json:"kv"`
-	} `json:"files"`
-}
-
-func duck(t *testing.T, file string) duckOutput {
-	t.Helper()
-	node, script := external.DuckDB(t)
-	out, err := exec.Command(node, script, file).Output()
-	if err != nil {
-		t.Fatalf("duckdb reader on %s: %v", file, err)
-	}
-	var d duckOutput
-	if err := json.Unmarshal(out, &d); err != nil {
-		t.Fatal(err)
-	}
-	return d
-}
-
 // TestExternalDuckDBReadsRunOutput: the default scenario's Parquet files,
 // read by DuckDB (an independent reader), have the rows and columns the run
 // wrote, and the precession DuckDB reads equals the --json value bit for bit.
@@ -65,14 +38,11 @@ func TestExternalDuckDBReadsRunOutput(t *testing.T) {
 	if len(rows) != 1 {
 		t.Fatalf("%d summary rows in JSON, want 1 (one orbiting body)", len(rows))
 	}
-	sum := duck(t, filepath.Join(dir, "summary.parquet"))
+	sum := external.ReadDuckDB(t, filepath.Join(dir, "summary.parquet"))
 	if sum.RowCount != 1 {
 		t.Errorf("DuckDB sees %d summary rows, want 1", sum.RowCount)
 	}
-	col := map[string]int{}
-	for i, c := range sum.Columns {
-		col[c.Name] = i
-	}
+	col := sum.ColumnIndex()
 	for _, name := range []string{"body", "precession_rad_per_orbit", "precession_arcsec_per_century",
 		"semi_analytic_precession_arcsec_per_century", "anomaly_arcsec_per_century", "semi_analytic_path",
 		"period_shift_radial_vs_kepler", "period_shift_radial_vs_newton_run", "energy_rel_error_max"} {
@@ -85,18 +55,21 @@ func TestExternalDuckDBReadsRunOutput(t *testing.T) {
 	}
 	for _, name := range []string{"precession_arcsec_per_century", "precession_rad_per_orbit", "anomaly_arcsec_per_century"} {
 		want := rows[0][name].(float64)
-		got := sum.Rows[0][col[name]].(float64)
+		got, err := strconv.ParseFloat(string(sum.Rows[0][col[name]]), 64)
+		if err != nil {
+			t.Fatalf("%s: DuckDB cell %s: %v", name, sum.Rows[0][col[name]], err)
+		}
 		if math.Float64bits(got) != math.Float64bits(want) {
 			t.Errorf("%s: DuckDB %s, --json %s", name, strconv.FormatFloat(got, 'g', -1, 64), strconv.FormatFloat(want, 'g', -1, 64))
 		}
 	}
-	if got := sum.Rows[0][col["body"]]; got != "Tiber" {
+	if got := string(sum.Rows[0][col["body"]]); got != `"Tiber"` {
 		t.Errorf("body %v, want Tiber", got)
 	}
 	if kv := sum.Files[0].KV; kv["mgorbit.scenario.name"] != "aster-gr" || kv["mgorbit.version"] == "" || len(kv["mgorbit.scenario.sha256"]) != 64 {
 		t.Errorf("metadata: %v", kv)
 	}
-	traj := duck(t, filepath.Join(dir, "trajectory.parquet"))
+	traj := external.ReadDuckDB(t, filepath.Join(dir, "trajectory.parquet"))
 	// two bodies, one row each at t = 0, every output_every steps, and the
 	// last step (steps is a multiple of the cadence here or not)
 	kv := traj.Files[0].KV

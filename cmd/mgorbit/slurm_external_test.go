@@ -2,7 +2,6 @@ package main
 
 import (
 	"context"
-	"encoding/json"
 	"fmt"
 	"net"
 	"os"
@@ -175,17 +174,7 @@ func TestExternalSlurmArray(t *testing.T) {
 		len(merged.Rows), merged.Meta[scan.MetaShard], merged.Meta[scan.MetaWorkers])
 
 	// Any reader over the part files gives the whole table: DuckDB's glob.
-	node, check := external.DuckDB(t)
-	dout, err := exec.Command(node, check, scan.PartGlob(filepath.Join(arr, "scan.parquet"))).Output()
-	if err != nil {
-		t.Fatalf("DuckDB: %v", err)
-	}
-	var view struct {
-		RowCount int `json:"row_count"`
-	}
-	if err := json.Unmarshal(dout, &view); err != nil {
-		t.Fatal(err)
-	}
+	view := external.ReadDuckDB(t, scan.PartGlob(filepath.Join(arr, "scan.parquet")))
 	if view.RowCount != len(one.Rows) {
 		t.Errorf("DuckDB reads %d rows over the part files, the scan has %d", view.RowCount, len(one.Rows))
 	}

@@ -59,7 +59,6 @@ func TestExternalQuantilesAgainstSciPy(t *testing.T) {
 // columns with their types, NULLs where a point is undetermined, the same
 // values, and the bounds' metadata.
 func TestExternalDuckDBReadsJudgedTable(t *testing.T) {
-	node, script := external.DuckDB(t)
 	tab, _ := runScan(t, ellipseText, scan.SemiAnalytic, "kernel.yukawa.alpha=list:1e-7,1e-5,1e-3")
 	tab, err := rebuild(tab, nil, []column{{name: "probe_value", kind: optFloat, f: []float64{math.NaN(), 1, 5}}})
 	if err != nil {
@@ -70,24 +69,8 @@ func TestExternalDuckDBReadsJudgedTable(t *testing.T) {
 	if err := scan.WriteTable(path, ap.Table, false); err != nil {
 		t.Fatal(err)
 	}
-	out, err := exec.Command(node, script, path).Output()
-	if err != nil {
-		t.Fatalf("DuckDB: %v", err)
-	}
-	var v struct {
-		Columns []struct{ Name, Type string } `json:"columns"`
-		Rows    [][]json.RawMessage           `json:"rows"`
-		Files   []struct {
-			KV map[string]string `json:"kv"`
-		} `json:"files"`
-	}
-	if err := json.Unmarshal(out, &v); err != nil {
-		t.Fatal(err)
-	}
-	at := map[string]int{}
-	for k, c := range v.Columns {
-		at[c.Name] = k
-	}
+	v := external.ReadDuckDB(t, path)
+	at := v.ColumnIndex()
 	types := map[string]string{AllowedColumn: "BOOLEAN", ExcludedByColumn: "VARCHAR", PullColumn("probe"): "DOUBLE",
 		BeyondColumn("cap"): "DOUBLE", ExcludedColumn("cap"): "BOOLEAN", ChiSquareDoF: "BIGINT"}
 	for name, typ := range types {

@@ -3,47 +3,12 @@ package scan
 import (
 	"encoding/json"
 	"math"
-	"os/exec"
 	"path/filepath"
 	"strconv"
 	"testing"
 
 	"mgorbit/testdata/external"
 )
-
-// duckView is the part of testdata/duckdb/check.mjs's output read here.
-type duckView struct {
-	RowCount int `json:"row_count"`
-	Columns  []struct {
-		Name string `json:"name"`
-		Type string `json:"type"`
-	} `json:"columns"`
-	Rows  [][]json.RawMessage `json:"rows"`
-	Files []struct {
-		File string            `json:"file"`
-		KV   map[string]string `json:"kv"`
-	} `json:"files"`
-}
-
-// ReadWithDuckDB runs DuckDB (an independent Parquet reader) over a file
-// or glob.
-func readWithDuckDB(t *testing.T, target string) duckView {
-	t.Helper()
-	node, script := external.DuckDB(t)
-	out, err := exec.Command(node, script, target).Output()
-	if err != nil {
-		msg := ""
-		if ee, ok := err.(*exec.ExitError); ok {
-			msg = string(ee.Stderr)
-		}
-		t.Fatalf("DuckDB over %s: %v\n%s", target, err, msg)
-	}
-	var v duckView
-	if err := json.Unmarshal(out, &v); err != nil {
-		t.Fatalf("DuckDB output: %v", err)
-	}
-	return v
-}
 
 // DuckDB reads the part files of a sharded scan through one glob as the
 // merged table: the same rows and values.
@@ -61,7 +26,7 @@ func TestExternalDuckDBReadsScanParts(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	view := readWithDuckDB(t, PartGlob(table))
+	view := external.ReadDuckDB(t, PartGlob(table))
 	if view.RowCount != len(merged.Rows) || len(view.Files) != 3 {
 		t.Fatalf("DuckDB reads %d rows from %d files; the merged table has %d rows from 3", view.RowCount, len(view.Files), len(merged.Rows))
 	}

@@ -3,51 +3,12 @@ package table
 import (
 	"encoding/json"
 	"math"
-	"os/exec"
 	"path/filepath"
 	"strconv"
 	"testing"
 
 	"mgorbit/testdata/external"
 )
-
-// duckdbView is what testdata/duckdb/check.mjs prints.
-type duckdbView struct {
-	RowCount int `json:"row_count"`
-	Columns  []struct {
-		Name string `json:"name"`
-		Type string `json:"type"`
-	} `json:"columns"`
-	Rows  [][]json.RawMessage `json:"rows"`
-	Files []struct {
-		File    string            `json:"file"`
-		KV      map[string]string `json:"kv"`
-		Columns []struct {
-			Name        string   `json:"name"`
-			Repetition  string   `json:"repetition"`
-			Compression []string `json:"compression"`
-		} `json:"columns"`
-	} `json:"files"`
-}
-
-func readWithDuckDB(t *testing.T, target string) duckdbView {
-	t.Helper()
-	node, script := external.DuckDB(t)
-	cmd := exec.Command(node, script, target)
-	out, err := cmd.Output()
-	if err != nil {
-		msg := ""
-		if exit, ok := err.(*exec.ExitError); ok {
-			msg = string(exit.Stderr)
-		}
-		t.Fatalf("%s %s %s: %v\n%s", node, script, target, err, msg)
-	}
-	var view duckdbView
-	if err := json.Unmarshal(out, &view); err != nil {
-		t.Fatalf("decoding DuckDB output: %v\n%s", err, out)
-	}
-	return view
-}
 
 // unquote accepts the script's two spellings of a value: a bare JSON number
 // or a string for what JSON numbers cannot hold (-0, NaN, infinities, int64).
@@ -81,7 +42,7 @@ func TestExternalDuckDBReadsTable(t *testing.T) {
 	if err := Write(path, rows, sampleMeta(), false); err != nil {
 		t.Fatal(err)
 	}
-	view := readWithDuckDB(t, path)
+	view := external.ReadDuckDB(t, path)
 
 	if view.RowCount != len(rows) || len(view.Rows) != len(rows) {
 		t.Fatalf("DuckDB counts %d rows (%d listed), wrote %d", view.RowCount, len(view.Rows), len(rows))
@@ -157,7 +118,7 @@ func TestExternalDuckDBReadsGlob(t *testing.T) {
 			t.Fatal(err)
 		}
 	}
-	view := readWithDuckDB(t, filepath.Join(dir, "part-*.parquet"))
+	view := external.ReadDuckDB(t, filepath.Join(dir, "part-*.parquet"))
 	if view.RowCount != len(rows) {
 		t.Errorf("DuckDB counts %d rows over the parts, wrote %d", view.RowCount, len(rows))
 	}
