@@ -1,7 +1,6 @@
 package scenarios
 
 import (
-	"errors"
 	"strings"
 	"testing"
 )
@@ -16,12 +15,7 @@ func withStar(extra string) string {
 // every way a scenario can hold a number, and the shapes of values.
 func TestMalformedMore(t *testing.T) {
 	moonOfTestBody := strings.NewReplacer(`"Tiber"`, `"Moon"`, `"Aster"`, `"Tiber"`, `"0.35 au"`, `"0.001 au"`, `mass = "1.7e-7 Msun"`, "test = true").Replace(planetBody)
-	cases := []struct {
-		name string
-		text string
-		want []string
-		line int
-	}{
+	cases := []malformedCase{
 		{"radius negative", scenario(withStar(`radius = "-5 km"`), planetBody),
 			[]string{`body[1].radius = "-5 km"`, "must be a positive length"}, 6},
 		{"radius without unit", scenario(withStar("radius = 5"), planetBody),
@@ -71,30 +65,7 @@ func TestMalformedMore(t *testing.T) {
 		{"pericentre too fast for the default step", scenario("[integrator]\nmethod = \"yoshida6\"", starBody, planet("e = 0.21", "e = 0.99")),
 			[]string{"integrator.steps_per_orbit = 400.3 (default)", "too coarse for Tiber", "set steps_per_orbit >= "}, 0},
 	}
-	for _, c := range cases {
-		t.Run(c.name, func(t *testing.T) {
-			_, err := Parse("case.toml", []byte(c.text))
-			if err == nil {
-				t.Fatalf("accepted:\n%s", c.text)
-			}
-			msg := err.Error()
-			if !strings.HasPrefix(msg, "case.toml") {
-				t.Errorf("message does not start with the file name: %s", msg)
-			}
-			for _, w := range c.want {
-				if !strings.Contains(msg, w) {
-					t.Errorf("message lacks %q:\n%s", w, msg)
-				}
-			}
-			var ps Problems
-			if !errors.As(err, &ps) || len(ps) == 0 {
-				t.Fatalf("error is not Problems: %T", err)
-			}
-			if c.line != 0 && ps[0].Line != c.line {
-				t.Errorf("line %d, want %d:\n%s", ps[0].Line, c.line, msg)
-			}
-		})
-	}
+	checkMalformed(t, cases)
 }
 
 // TestEditDistanceSwaps: a swap of neighbours is one edit (optimal string

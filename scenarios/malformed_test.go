@@ -54,12 +54,7 @@ func planet(old, new string) string {
 // names the file, the field path and the problem (the schema in doc.go is
 // the specification each case checks).
 func TestMalformed(t *testing.T) {
-	cases := []struct {
-		name string
-		text string
-		want []string
-		line int // expected line of the first problem, 0 = not checked
-	}{
+	cases := []malformedCase{
 		{"missing name", starBody + planetBody, []string{"name: missing"}, 0},
 		{"empty name", strings.Replace(scenario(starBody, planetBody), `"case"`, `"  "`, 1), []string{"name", "must not be empty"}, 1},
 		{"name not a string", strings.Replace(scenario(starBody, planetBody), `"case"`, `5`, 1), []string{"name = 5", "must be a string"}, 1},
@@ -219,6 +214,26 @@ func TestMalformed(t *testing.T) {
 		{"duplicate key", scenario(starBody, planetBody+"e = 0.3"),
 			[]string{"TOML syntax", "e"}, 0},
 	}
+	checkMalformed(t, cases)
+	if len(cases) < 30 {
+		t.Errorf("only %d cases", len(cases))
+	}
+}
+
+// malformedCase is a scenario that must be refused, with the substrings its
+// message must hold and the line of its first problem (0 = not checked).
+type malformedCase struct {
+	name string
+	text string
+	want []string
+	line int
+}
+
+// checkMalformed parses each case and checks that it is refused with a
+// message that starts with the file name, holds every wanted substring, and
+// places its first problem on the stated line.
+func checkMalformed(t *testing.T, cases []malformedCase) {
+	t.Helper()
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
 			_, err := Parse("case.toml", []byte(c.text))
@@ -242,8 +257,5 @@ func TestMalformed(t *testing.T) {
 				t.Errorf("line %d, want %d:\n%s", ps[0].Line, c.line, msg)
 			}
 		})
-	}
-	if len(cases) < 30 {
-		t.Errorf("only %d cases", len(cases))
 	}
 }
